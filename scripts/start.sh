@@ -1,0 +1,41 @@
+#!/usr/bin/env bash
+# npm start: from a fresh clone to a running production server on http://localhost:3000.
+# Installs dependencies, ensures and starts PostgreSQL on loopback, migrates, seeds the
+# demo on an empty database, starts the local mail fake, builds, and serves.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+. scripts/lib.sh
+
+PORT=${PORT:-3000}
+HOST=${HOST:-127.0.0.1}
+export BITSLACK_ENV=${BITSLACK_ENV:-demo}
+
+ensure_node_modules
+LOCAL_PG=${DATABASE_URL:+no}
+bash scripts/pg.sh start
+DATABASE_URL=${DATABASE_URL:-$(bash scripts/pg.sh url)}
+export DATABASE_URL NUXT_DATABASE_URL=$DATABASE_URL
+ensure_session_secret
+
+npx tsx scripts/db.ts migrate
+npx tsx scripts/db.ts seed
+
+pids=()
+cleanup() {
+  for p in "${pids[@]}"; do kill "$p" 2>/dev/null || true; done
+  [ "${LOCAL_PG:-}" = no ] || env -u DATABASE_URL bash scripts/pg.sh stop || true
+}
+trap cleanup EXIT INT TERM
+
+. scripts/fakes.sh
+start_fakes
+
+log "building (nuxt build)"
+npx nuxt build >.data/build.log 2>&1 || { tail -n 40 .data/build.log >&2; exit 1; }
+
+log "Bitslack is at http://localhost:$PORT"
+log "demo sign-in: admin@harrowbay.example (also firmware@, hardware@, reviewer@, viewer@) / password harrow-bay-demo"
+print_fake_urls
+PORT=$PORT HOST=$HOST node .output/server/index.mjs &
+pids+=($!)
+wait "${pids[-1]}"

@@ -1,0 +1,60 @@
+#!/usr/bin/env bash
+# npm test: installs what the suite needs, starts a throwaway PostgreSQL cluster on its
+# own port and folder, builds the app, runs every tier (unit, integration, browser) in
+# one vitest run, stops what it started (also on failure) and ends with the line
+# "N passed, N failed".
+set -uo pipefail
+cd "$(dirname "$0")/.."
+. scripts/lib.sh
+
+# The suite never touches a configured production or development database.
+unset DATABASE_URL NUXT_DATABASE_URL
+export BITSLACK_PG_DIR=${BITSLACK_TEST_PG_DIR:-.data/postgres-test}
+export BITSLACK_PG_PORT=${BITSLACK_TEST_PG_PORT:-54339}
+export BITSLACK_PG_DB=bitslack_test
+export BITSLACK_ENV=test
+export NUXT_SESSION_PASSWORD=test-session-password-at-least-32-characters-long
+
+set -e
+ensure_node_modules
+pkgs=("/usr/bin/chromium:chromium" "ngspice:ngspice" "pdftoppm:poppler-utils")
+ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1 || pkgs+=("/nonexistent-initdb:postgresql")
+ensure_debian_packages "${pkgs[@]}"
+
+pids=()
+cleanup() {
+  for p in "${pids[@]}"; do kill "$p" 2>/dev/null || true; done
+  env -u DATABASE_URL bash scripts/pg.sh stop || true
+}
+trap cleanup EXIT INT TERM
+
+bash scripts/pg.sh stop >/dev/null 2>&1 || true
+rm -rf "$BITSLACK_PG_DIR"
+bash scripts/pg.sh start
+export DATABASE_URL=$(bash scripts/pg.sh url)
+npx tsx scripts/db.ts migrate
+set +e
+
+log "building the app for the integration and browser tiers"
+if ! npx nuxt build >.data/test-build.log 2>&1; then
+  tail -n 60 .data/test-build.log >&2
+  echo "0 passed, 1 failed"
+  exit 1
+fi
+
+mkdir -p tests/.artifacts
+results=tests/.artifacts/vitest.json
+rm -f "$results"
+npx vitest run --config vitest.all.config.ts --reporter=default --reporter=json --outputFile.json="$results" "$@"
+status=$?
+
+node -e '
+const fs = require("fs")
+const f = process.argv[1]
+if (!fs.existsSync(f)) { console.log("0 passed, 1 failed"); process.exit(0) }
+const r = JSON.parse(fs.readFileSync(f, "utf8"))
+// a file that fails to load has no failed test of its own: count it as a failure
+const brokenFiles = r.testResults.filter((s) => s.status === "failed" && s.assertionResults.every((a) => a.status !== "failed")).length
+console.log(`${r.numPassedTests} passed, ${r.numFailedTests + brokenFiles} failed`)
+' "$results"
+exit $status

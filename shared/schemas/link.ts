@@ -1,0 +1,436 @@
+/**
+ * The link schema: one contract for the forms, the API, JSON import/export and the
+ * timing engine. All quantities are SI (seconds, volts, ohms, farads, amperes, watts,
+ * hertz); the UI converts engineering notation at its edge.
+ *
+ * Field names here are a public contract (outside test suites call the engine with
+ * them): add fields, never rename them.
+ */
+import { z } from 'zod'
+
+export const LINK_SCHEMA_VERSION = 1
+
+// ---------------------------------------------------------------- small pieces
+
+/** A finite number with a field-specific range, so the message names the problem. */
+const num = (min: number, max: number, what: string) =>
+  z
+    .number({ error: `${what} must be a number` })
+    .min(min, `${what} must be at least ${min}`)
+    .max(max, `${what} must be at most ${max}`)
+
+/** seconds, 0 to 1 s */
+export const Seconds = num(0, 1, 'time (s)')
+/** seconds, may be negative (clock-to-output min, skews) within +-1 s */
+export const SignedSeconds = num(-1, 1, 'time (s)')
+export const Volts = num(-100, 1000, 'voltage (V)')
+export const PositiveVolts = num(0, 1000, 'voltage (V)')
+export const Ohms = num(0.001, 1e9, 'resistance (ohm)')
+export const Farads = num(0, 1, 'capacitance (F)')
+export const Amperes = num(0, 100, 'current (A)')
+export const Watts = num(0, 1000, 'power (W)')
+
+/** Propagation delay corners, seconds, 50 % to 50 % (datasheet convention). */
+export const DelaySpec = z
+  .object({ min: Seconds, typ: Seconds, max: Seconds })
+  .refine((d) => d.min <= d.typ && d.typ <= d.max, {
+    message: 'delay corners must satisfy min <= typ <= max',
+  })
+export type DelaySpec = z.infer<typeof DelaySpec>
+
+/** Transition time (10-90 % rise or 90-10 % fall), seconds. */
+export const TransitionSpec = z
+  .object({ typ: Seconds, max: Seconds })
+  .refine((t) => t.typ <= t.max, { message: 'transition time must satisfy typ <= max' })
+export type TransitionSpec = z.infer<typeof TransitionSpec>
+
+/** A threshold given as one value or as a min/max range, volts. */
+export const ThresholdSpec = z.union([
+  Volts,
+  z
+    .object({ min: Volts, max: Volts })
+    .refine((t) => t.min <= t.max, { message: 'threshold range must satisfy min <= max' }),
+])
+export type ThresholdSpec = z.infer<typeof ThresholdSpec>
+
+/** Corner range of a signed time (clock-to-output, skew), seconds. */
+export const TimeRange = z
+  .object({ min: SignedSeconds, max: SignedSeconds })
+  .refine((t) => t.min <= t.max, { message: 'range must satisfy min <= max' })
+export type TimeRange = z.infer<typeof TimeRange>
+
+// ---------------------------------------------------------------- stages
+
+/** Fields every stage may carry. */
+const stageCommon = {
+  name: z.string().trim().min(1, 'name is required').max(120, 'name is at most 120 characters'),
+  /** part-to-part delay skew bound for this stage class, seconds (both edges) */
+  partSkew: Seconds.optional(),
+  /** random jitter added by this stage, rms seconds */
+  jitterRms: Seconds.optional(),
+  /** bounded (deterministic) jitter added by this stage, peak seconds (+- this) */
+  jitterPeak: Seconds.optional(),
+  /**
+   * The stage's own input thresholds as fractions of the previous stage's swing
+   * (rising, falling). Default 0.5 / 0.5 (datasheet delays are 50 % to 50 %).
+   */
+  inputThreshold: z
+    .object({ rise: num(0.01, 0.99, 'threshold fraction'), fall: num(0.01, 0.99, 'threshold fraction') })
+    .optional(),
+  /** Output swing of this stage, volts. Defaults: phototransistor vceSat..vcc, else 0..receiver vdd. */
+  vLow: Volts.optional(),
+  vHigh: Volts.optional(),
+  /** Part library entry this stage was taken from (informational). */
+  partId: z.string().max(64).optional(),
+}
+
+export const DigitalStage = z.object({
+  kind: z.literal('digital'),
+  ...stageCommon,
+  inverting: z.boolean().default(false),
+  tplh: DelaySpec,
+  tphl: DelaySpec,
+  /** |tPLH - tPHL| bound for one part, seconds */
+  pwdMax: Seconds.optional(),
+  tr: TransitionSpec.optional(),
+  tf: TransitionSpec.optional(),
+  edge: z.enum(['ramp', 'exponential']).default('ramp'),
+})
+export type DigitalStage = z.infer<typeof DigitalStage>
+
+/** One characterisation point read from a datasheet curve or a measurement. */
+export const CharacterizationPoint = z.object({
+  /** load (pull-up) resistance of this point, ohms */
+  rl: Ohms,
+  tplh: Seconds.optional(),
+  tphl: Seconds.optional(),
+  tr: Seconds.optional(),
+  tf: Seconds.optional(),
+  /** load capacitance at which the point was taken, farads (default: the stage's loadCap) */
+  loadCap: Farads.optional(),
+})
+export type CharacterizationPoint = z.infer<typeof CharacterizationPoint>
+
+export const PhototransistorStage = z
+  .object({
+    kind: z.literal('phototransistor'),
+    ...stageCommon,
+    /** collector: common emitter with collector pull-up (inverting); emitter: follower with emitter resistor */
+    wiring: z.enum(['collector', 'emitter']).default('collector'),
+    /** the input level that lights the LED (a pin that sinks the LED current lights it when low) */
+    ledOnWhen: z.enum(['high', 'low']).default('high'),
+    /** LED drive voltage (the driving pin's swing), volts */
+    driveVoltage: PositiveVolts,
+    /** LED forward voltage, volts */
+    vf: PositiveVolts,
+    /** LED series resistor, ohms (or give ledCurrent) */
+    rLed: Ohms.optional(),
+    /** LED forward current, amperes (instead of rLed) */
+    ledCurrent: Amperes.optional(),
+    /** minimum current transfer ratio as a fraction (0.2 = 20 %) at ctrTestCurrent */
+    ctrMin: num(0.0001, 100, 'CTR (fraction)'),
+    /** LED current at which ctrMin is specified, amperes */
+    ctrTestCurrent: Amperes.optional(),
+    /** multiplicative CTR derating factors (0..1] */
+    ctrDerating: z
+      .object({
+        temperature: num(0.01, 1, 'CTR temperature derating').default(1),
+        endOfLife: num(0.01, 1, 'CTR end-of-life derating').default(1),
+      })
+      .default({ temperature: 1, endOfLife: 1 }),
+    /** output supply, volts */
+    vcc: PositiveVolts,
+    /** collector (or emitter) load resistor, ohms */
+    rl: Ohms,
+    /** collector-emitter saturation voltage, volts */
+    vceSat: PositiveVolts.default(0.4),
+    /** load capacitance on the output node, farads */
+    loadCap: Farads.default(0),
+    ledCurrentMax: Amperes.optional(),
+    collectorCurrentMax: Amperes.optional(),
+    /** total package dissipation limit, watts */
+    powerMax: Watts.optional(),
+    /** the driving pin's current limit, amperes */
+    driverCurrentMax: Amperes.optional(),
+    characterization: z.array(CharacterizationPoint).min(1, 'at least one characterisation point is needed').max(32),
+  })
+  .refine((s) => s.rLed !== undefined || s.ledCurrent !== undefined, {
+    message: 'give rLed or ledCurrent',
+    path: ['rLed'],
+  })
+export type PhototransistorStage = z.infer<typeof PhototransistorStage>
+
+export const WireStage = z.object({
+  kind: z.literal('wire'),
+  ...stageCommon,
+  /** metres */
+  length: num(0, 10000, 'length (m)'),
+  /** seconds per metre (5 ns/m: velocity factor about 0.66) */
+  delayPerMeter: num(1e-10, 1e-6, 'delay per metre (s/m)').default(5e-9),
+})
+export type WireStage = z.infer<typeof WireStage>
+
+export const RcStage = z.object({
+  kind: z.literal('rc'),
+  ...stageCommon,
+  r: Ohms,
+  c: Farads,
+  /** which output direction is passive (charged through R) */
+  passive: z.enum(['rise', 'fall']).default('rise'),
+})
+export type RcStage = z.infer<typeof RcStage>
+
+export const StageSpec = z.discriminatedUnion('kind', [DigitalStage, PhototransistorStage, WireStage, RcStage])
+export type StageSpec = z.infer<typeof StageSpec>
+export type StageKind = StageSpec['kind']
+
+// ---------------------------------------------------------------- channels
+
+export const ReceiverSpec = z
+  .object({
+    /** receiver supply, volts */
+    vdd: num(0.5, 60, 'receiver vdd (V)'),
+    /** VIH (min), volts */
+    vih: Volts,
+    /** VIL (max), volts */
+    vil: Volts,
+    schmitt: z.boolean().default(false),
+    /** Schmitt positive-going threshold (a value or min/max), volts */
+    vtPlus: ThresholdSpec.optional(),
+    /** Schmitt negative-going threshold (a value or min/max), volts */
+    vtMinus: ThresholdSpec.optional(),
+    /** the receiver inverts the logic level (e.g. a UART with RX inversion enabled) */
+    invert: z.boolean().default(false),
+    /** longest input transition the input tolerates, seconds (non-Schmitt inputs) */
+    maxInputTransition: Seconds.optional(),
+    /** logic-family preset the thresholds came from (informational) */
+    family: z.string().max(40).optional(),
+  })
+  .refine((r) => r.vil < r.vih, { message: 'vil must be below vih', path: ['vil'] })
+  .refine((r) => !r.schmitt || (r.vtPlus !== undefined && r.vtMinus !== undefined), {
+    message: 'a Schmitt input needs vtPlus and vtMinus',
+    path: ['vtPlus'],
+  })
+export type ReceiverSpec = z.infer<typeof ReceiverSpec>
+
+export const ChannelRole = z.enum(['uart', 'sclk', 'mosi', 'miso', 'cs'])
+export type ChannelRole = z.infer<typeof ChannelRole>
+
+export const ChannelSpec = z.object({
+  id: z
+    .string()
+    .regex(/^[A-Za-z0-9_-]{1,32}$/, 'channel id: 1-32 letters, digits, - or _'),
+  role: ChannelRole,
+  /** free text, e.g. "board A TX -> board B RX" */
+  label: z.string().max(120).optional(),
+  stages: z.array(StageSpec).max(24, 'at most 24 stages per channel'),
+  receiver: ReceiverSpec,
+})
+export type ChannelSpec = z.infer<typeof ChannelSpec>
+
+// ---------------------------------------------------------------- UART
+
+const Oversampling = z.number().int('oversampling must be an integer').min(4, 'oversampling must be at least 4').max(64, 'oversampling must be at most 64')
+
+/** Clock of one UART end: a stated error bound or a baud generator. */
+const uartClockFields = {
+  /** stated error bound, ppm (+-); 20000 = +-2 % */
+  errorPpm: num(0, 200000, 'clock error (ppm)').optional(),
+  /** peripheral clock of the baud generator, hertz */
+  clockHz: num(1, 10e9, 'clock (Hz)').optional(),
+  /** fractional bits of the divisor (0 = integer divisor, 4 = 1/16 steps) */
+  fractionBits: z.number().int().min(0).max(8).optional(),
+  /** oscillator tolerance, ppm (+-) */
+  tolerancePpm: num(0, 200000, 'oscillator tolerance (ppm)').optional(),
+}
+
+const clockGiven = (c: { errorPpm?: number; clockHz?: number }) => c.errorPpm !== undefined || c.clockHz !== undefined
+
+export const UartTxSpec = z
+  .object({ ...uartClockFields, oversampling: Oversampling.optional() })
+  .refine(clockGiven, { message: 'give errorPpm or a baud generator clockHz', path: ['errorPpm'] })
+export type UartTxSpec = z.infer<typeof UartTxSpec>
+
+export const UartRxSpec = z
+  .object({
+    ...uartClockFields,
+    /** ticks: the oversampling receiver of timing-model.md section 2; ideal: exactly at samplePoint */
+    sampler: z.enum(['ticks', 'ideal']).default('ticks'),
+    oversampling: Oversampling.default(16),
+    /** sample ticks after the detection tick, each below oversampling */
+    sampleTicks: z.array(z.number().int().min(0).max(63)).min(1).max(15).optional(),
+    vote: z.enum(['single', 'majority', 'all']).default('majority'),
+    /** ideal sampler: fraction of the bit at which it samples */
+    samplePoint: num(0.01, 0.99, 'sample point').default(0.5),
+  })
+  .refine(clockGiven, { message: 'give errorPpm or a baud generator clockHz', path: ['errorPpm'] })
+  .superRefine((rx, ctx) => {
+    if (rx.sampler !== 'ticks' || !rx.sampleTicks) return
+    const ticks = rx.sampleTicks
+    if (ticks.some((t) => t >= rx.oversampling))
+      ctx.addIssue({ code: 'custom', path: ['sampleTicks'], message: 'every sample tick must be below oversampling' })
+    for (let i = 1; i < ticks.length; i++)
+      if (ticks[i]! <= ticks[i - 1]!)
+        ctx.addIssue({ code: 'custom', path: ['sampleTicks'], message: 'sample ticks must be strictly increasing' })
+    if (rx.vote === 'single' && ticks.length !== 1)
+      ctx.addIssue({ code: 'custom', path: ['sampleTicks'], message: "vote 'single' takes exactly one tick" })
+    if (rx.vote === 'majority' && (ticks.length < 3 || ticks.length % 2 === 0))
+      ctx.addIssue({ code: 'custom', path: ['sampleTicks'], message: "vote 'majority' takes an odd number of at least three ticks" })
+  })
+export type UartRxSpec = z.infer<typeof UartRxSpec>
+
+export const UartSettings = z.object({
+  baud: num(1, 100e6, 'baud'),
+  dataBits: z.number().int().min(5, 'dataBits must be 5 to 9').max(9, 'dataBits must be 5 to 9'),
+  parity: z.enum(['none', 'even', 'odd', 'mark', 'space']).default('none'),
+  stopBits: z.union([z.literal(1), z.literal(1.5), z.literal(2)], { error: 'stopBits must be 1, 1.5 or 2' }),
+  backToBack: z.boolean().default(true),
+  /** required margin, unit intervals */
+  requiredMarginUi: num(0, 0.5, 'required margin (UI)').default(0.1),
+  /** bit error ratio target for the statistical view */
+  berTarget: num(1e-20, 0.1, 'BER target').default(1e-12),
+  tx: UartTxSpec,
+  rx: UartRxSpec,
+})
+export type UartSettings = z.infer<typeof UartSettings>
+
+// ---------------------------------------------------------------- SPI
+
+export const SpiController = z.object({
+  /** controller MISO setup requirement, seconds */
+  misoSetup: Seconds.default(0),
+  /** controller MISO hold requirement, seconds */
+  misoHold: Seconds.default(0),
+  /** sample MISO one half-cycle later than the standard edge */
+  delayedSampling: z.boolean().default(false),
+  /** time the controller gives from CS asserted to the first SCLK edge (default half a period) */
+  csLeadTime: Seconds.optional(),
+  /** time the controller gives from the last SCLK edge to CS released (default half a period) */
+  csLagTime: Seconds.optional(),
+  /** controller clock feeding the SCLK prescaler, hertz */
+  clockHz: num(1, 10e9, 'controller clock (Hz)').optional(),
+  /** prescaler divisors available (default 2, 4, 8 ... 256) */
+  prescalers: z.array(z.number().int().min(1).max(65536)).min(1).max(64).optional(),
+})
+export type SpiController = z.infer<typeof SpiController>
+
+export const SpiPeripheral = z.object({
+  mosiSetup: Seconds.default(0),
+  mosiHold: Seconds.default(0),
+  /** clock-to-output from the SCLK edge it sees to MISO valid, seconds */
+  clockToOut: TimeRange,
+  sclkHighMin: Seconds.default(0),
+  sclkLowMin: Seconds.default(0),
+  /** CS asserted to first SCLK edge, minimum, seconds */
+  csLead: Seconds.default(0),
+  /** last SCLK edge to CS released, minimum, seconds */
+  csLag: Seconds.default(0),
+})
+export type SpiPeripheral = z.infer<typeof SpiPeripheral>
+
+export const IsolatorPackage = z.object({
+  /** ids of channels through one isolator package */
+  channels: z.array(z.string()).min(1),
+  /** channel-to-channel skew bound within the package, seconds */
+  channelSkew: Seconds,
+})
+export type IsolatorPackage = z.infer<typeof IsolatorPackage>
+
+const spiFlatKeys = {
+  controller: ['misoSetup', 'misoHold', 'delayedSampling', 'csLeadTime', 'csLagTime', 'clockHz', 'prescalers'],
+  peripheral: ['mosiSetup', 'mosiHold', 'clockToOut', 'sclkHighMin', 'sclkLowMin', 'csLead', 'csLag'],
+} as const
+
+/**
+ * Accept the controller and peripheral timing either nested (`controller`, `peripheral`,
+ * the canonical form) or flat on the SPI settings, as the issue lists them.
+ */
+function nestSpiTiming(input: unknown): unknown {
+  if (!input || typeof input !== 'object' || Array.isArray(input)) return input
+  const src = input as Record<string, unknown>
+  const out: Record<string, unknown> = { ...src }
+  for (const group of ['controller', 'peripheral'] as const) {
+    const nested = src[group] && typeof src[group] === 'object' ? { ...(src[group] as object) } : {}
+    for (const key of spiFlatKeys[group]) {
+      if (key in src) {
+        ;(nested as Record<string, unknown>)[key] ??= src[key]
+        delete out[key]
+      }
+    }
+    out[group] = nested
+  }
+  return out
+}
+
+export const SpiSettings = z.preprocess(
+  nestSpiTiming,
+  z.object({
+    sclkHz: num(1, 1e9, 'SCLK (Hz)'),
+    cpol: z.union([z.literal(0), z.literal(1)]),
+    cpha: z.union([z.literal(0), z.literal(1)]),
+    /** slack every check must keep, seconds */
+    requiredSlack: Seconds.default(0),
+    controller: SpiController,
+    peripheral: SpiPeripheral,
+    packages: z.array(IsolatorPackage).max(16).default([]),
+  }),
+)
+export type SpiSettings = z.infer<typeof SpiSettings>
+
+// ---------------------------------------------------------------- link
+
+/**
+ * Protocols the engine analyses now. The schema leaves room for more (I2C, CAN:
+ * timing-model.md section 4) as further `protocol` values with their own settings key.
+ */
+export const Protocol = z.enum(['uart', 'spi'])
+export type Protocol = z.infer<typeof Protocol>
+
+export const LinkSpec = z
+  .object({
+    schemaVersion: z.literal(LINK_SCHEMA_VERSION, { error: `schemaVersion must be ${LINK_SCHEMA_VERSION}` }),
+    name: z.string().trim().min(1, 'name is required').max(200, 'name is at most 200 characters'),
+    protocol: Protocol,
+    description: z.string().max(4000).optional(),
+    channels: z.array(ChannelSpec).min(1, 'a link needs at least one channel').max(16, 'at most 16 channels'),
+    uart: UartSettings.optional(),
+    spi: SpiSettings.optional(),
+  })
+  .superRefine((link, ctx) => {
+    const ids = new Set<string>()
+    link.channels.forEach((ch, i) => {
+      if (ids.has(ch.id)) ctx.addIssue({ code: 'custom', path: ['channels', i, 'id'], message: `duplicate channel id '${ch.id}'` })
+      ids.add(ch.id)
+    })
+    const roles = link.channels.map((c) => c.role)
+    if (link.protocol === 'uart') {
+      if (!link.uart) ctx.addIssue({ code: 'custom', path: ['uart'], message: 'a UART link needs uart settings' })
+      const n = roles.filter((r) => r === 'uart').length
+      if (n < 1 || n > 2)
+        ctx.addIssue({ code: 'custom', path: ['channels'], message: 'a UART link has one or two uart channels (one per direction)' })
+      link.channels.forEach((ch, i) => {
+        if (ch.role !== 'uart') ctx.addIssue({ code: 'custom', path: ['channels', i, 'role'], message: "a UART link's channels have role 'uart'" })
+      })
+    }
+    if (link.protocol === 'spi') {
+      if (!link.spi) ctx.addIssue({ code: 'custom', path: ['spi'], message: 'an SPI link needs spi settings' })
+      for (const need of ['sclk', 'mosi', 'miso'] as const)
+        if (roles.filter((r) => r === need).length !== 1)
+          ctx.addIssue({ code: 'custom', path: ['channels'], message: `an SPI link needs exactly one '${need}' channel` })
+      if (roles.filter((r) => r === 'cs').length > 1)
+        ctx.addIssue({ code: 'custom', path: ['channels'], message: "an SPI link has at most one 'cs' channel" })
+      link.channels.forEach((ch, i) => {
+        if (ch.role === 'uart') ctx.addIssue({ code: 'custom', path: ['channels', i, 'role'], message: "an SPI link has no 'uart' channel" })
+      })
+      link.spi?.packages.forEach((p, i) =>
+        p.channels.forEach((id, j) => {
+          if (!ids.has(id)) ctx.addIssue({ code: 'custom', path: ['spi', 'packages', i, 'channels', j], message: `unknown channel '${id}'` })
+        }),
+      )
+    }
+  })
+
+/** The validated link (defaults filled in). */
+export type Link = z.infer<typeof LinkSpec>
+/** What a caller may send (defaults optional). */
+export type LinkInput = z.input<typeof LinkSpec>
