@@ -25,6 +25,9 @@ export default defineNuxtConfig({
   nitro: {
     // Sequelize loads its dialect by name; keep pg and sequelize outside the bundle.
     externals: { external: ['pg', 'pg-hstore', 'sequelize'] },
+    ...(process.env.BITSLACK_OUTPUT_DIR ? { output: { dir: process.env.BITSLACK_OUTPUT_DIR } } : {}),
   },
   typescript: { strict: true },
+  // scripts/test.sh builds into its own folders so concurrent runs never share a build
+  ...(process.env.BITSLACK_BUILD_DIR ? { buildDir: process.env.BITSLACK_BUILD_DIR } : {}),
 })

@@ -9,9 +9,23 @@ cd "$(dirname "$0")/.."
 
 # The suite never touches a configured production or development database.
 unset DATABASE_URL NUXT_DATABASE_URL
-export BITSLACK_PG_DIR=${BITSLACK_TEST_PG_DIR:-.data/postgres-test}
-export BITSLACK_PG_PORT=${BITSLACK_TEST_PG_PORT:-54339}
+
+# Each run takes a free slot (a lock file), so runs in parallel on one machine get their
+# own cluster, ports and build folders. Slot 0 uses the documented defaults.
+mkdir -p .data
+for s in 0 1 2 3 4 5 6 7; do
+  exec {slot_fd}>".data/test-slot-$s.lock"
+  if flock -n "$slot_fd"; then SLOT=$s; break; fi
+  exec {slot_fd}>&-
+done
+[ -n "${SLOT:-}" ] || { echo "no free test slot (8 runs in parallel?)" >&2; echo "0 passed, 1 failed"; exit 1; }
+export BITSLACK_TEST_SLOT=$SLOT
+export BITSLACK_PG_DIR=${BITSLACK_TEST_PG_DIR:-.data/postgres-test-$SLOT}
+export BITSLACK_PG_PORT=${BITSLACK_TEST_PG_PORT:-$((54339 + 20 * SLOT))}
+export BITSLACK_TEST_PORT=${BITSLACK_TEST_PORT:-$((3100 + 10 * SLOT))}
 export BITSLACK_PG_DB=bitslack_test
+export BITSLACK_BUILD_DIR=$PWD/.data/test-build-$SLOT/nuxt
+export BITSLACK_OUTPUT_DIR=$PWD/.data/test-build-$SLOT/output
 export BITSLACK_ENV=test
 export NUXT_SESSION_PASSWORD=test-session-password-at-least-32-characters-long
 
@@ -36,14 +50,14 @@ npx tsx scripts/db.ts migrate
 set +e
 
 log "building the app for the integration and browser tiers"
-if ! npx nuxt build >.data/test-build.log 2>&1; then
-  tail -n 60 .data/test-build.log >&2
+if ! npx nuxt build >".data/test-build-$SLOT.log" 2>&1; then
+  tail -n 60 ".data/test-build-$SLOT.log" >&2
   echo "0 passed, 1 failed"
   exit 1
 fi
 
 mkdir -p tests/.artifacts
-results=tests/.artifacts/vitest.json
+results=tests/.artifacts/vitest-$SLOT.json
 rm -f "$results"
 npx vitest run --config vitest.all.config.ts --reporter=default --reporter=json --outputFile.json="$results" "$@"
 status=$?

@@ -1,6 +1,6 @@
 /**
  * Global setup of the integration and browser tiers: start the built server
- * (.output/server/index.mjs, built by scripts/test.sh) against the throwaway database,
+ * (BITSLACK_OUTPUT_DIR/server/index.mjs, built by scripts/test.sh) against the throwaway database,
  * wait until /api/health answers, and stop it afterwards.
  */
 import { spawn, type ChildProcess } from 'node:child_process'
@@ -13,7 +13,8 @@ let server: ChildProcess | undefined
 
 export async function setup(project: TestProject) {
   if (!process.env.DATABASE_URL) throw new Error('DATABASE_URL is not set: run the suite through npm test')
-  server = spawn(process.execPath, ['.output/server/index.mjs'], {
+  const output = process.env.BITSLACK_OUTPUT_DIR || '.output'
+  server = spawn(process.execPath, [`${output}/server/index.mjs`], {
     env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NODE_ENV: 'production' },
     stdio: ['ignore', 'inherit', 'inherit'],
   })
