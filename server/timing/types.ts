@@ -22,6 +22,7 @@ export interface Warning {
     | 'rate-cap'
     | 'no-pass'
     | 'generator-error'
+    | 'threshold-unreachable'
     | 'other'
   message: string
   channel?: string
@@ -53,6 +54,13 @@ export interface StageEdgeModel {
   partSkew: number
   jitterRms: number
   jitterPeak: number
+  /**
+   * Output directions in which the stage does not re-switch but passes its input edge on
+   * (shape, transition time and swing kept), delayed by tPLH / tPHL: both directions of a
+   * wire, the actively driven direction of an rc stage. Absent: the stage switches at its
+   * input threshold in both directions.
+   */
+  passThrough?: { rise: boolean; fall: boolean }
 }
 
 /**

@@ -1,0 +1,290 @@
+/**
+ * analyzeLink: the whole analysis of one link (timing-model.md sections 1, 2, 3 and 8):
+ * every channel's chain, the UART per-bit margins of each direction or the SPI
+ * slacks, one verdict, every assumption in words, every warning, the engine version
+ * and the full input used, so a margin report can be recomputed.
+ */
+import type { z } from 'zod'
+import { LinkSpec, type Link, type UartSettings } from '../../shared/schemas/link'
+import { analyzeChain, type ChainAnalysis } from './chain'
+import { EngineInputError } from './errors'
+import { phototransistorAssumptions } from './phototransistor'
+import { analyzeSpi, type SpiResult } from './spi'
+import type { Corners, EdgeShape, Warning } from './types'
+import { analyzeUartChannel, type ReceiverEnd, type TransmitterEnd, type UartChannelResult } from './uart'
+import { ENGINE_VERSION } from './version'
+
+export type Verdict = 'pass' | 'marginal' | 'fail'
+
+/** One channel as the result reports it (physical directions at the receiving pin). */
+export interface ChannelResult {
+  id: string
+  role: string
+  /** delay of an edge rising at the receiving pin, seconds {min, typ, max} */
+  rise: Corners
+  fall: Corners
+  /** D_rise - D_fall, worst-case interval, seconds */
+  pwd: { min: number; max: number }
+  /** nominal D_rise - D_fall, seconds */
+  pwdTyp: number
+  /** 1-sigma spread of D_rise - D_fall (root-sum-square), seconds */
+  pwdSigma: number
+  polarity: 'kept' | 'inverted'
+  /** received 10-90 % rise / 90-10 % fall time, seconds {typ, max} */
+  tr: { typ: number; max: number }
+  tf: { typ: number; max: number }
+  riseShape: EdgeShape
+  fallShape: EdgeShape
+  jitterRms: number
+  jitterPeak: number
+  partSkew: number
+  /** the receiving pin's own contribution to D_rise - D_fall, seconds */
+  receiverTerm: Corners
+  /** the channel can carry data at all (polarity, reachable thresholds, saturated outputs) */
+  functional: boolean
+  stages: {
+    index: number
+    name: string
+    kind: string
+    inverting: boolean
+    tplh: Corners
+    tphl: Corners
+    tr: { typ: number; max: number }
+    tf: { typ: number; max: number }
+    /** this stage's rising minus falling output delay, threshold offsets included, seconds */
+    asymmetry: Corners
+    /** the sign with which that enters the chain PWD */
+    sign: 1 | -1
+    operating?: { ledCurrent: number; icRequired: number; icAvailable: number; overdrive: number; saturated: boolean; power: number }
+  }[]
+}
+
+export interface UartResult extends UartChannelResult {
+  /** every uart channel's analysis (the top level repeats the worst one) */
+  byChannel: UartChannelResult[]
+}
+
+export interface LinkAnalysis {
+  engineVersion: string
+  verdict: Verdict
+  channels: ChannelResult[]
+  uart: UartResult | null
+  spi: SpiResult | null
+  assumptions: string[]
+  warnings: Warning[]
+  /** the full parsed input (defaults filled in) */
+  input: Link
+}
+
+/** Validate and default a link, turning the schema's first issue into an EngineInputError. */
+export function parseLink(input: z.input<typeof LinkSpec> | Link | unknown): Link {
+  const r = LinkSpec.safeParse(input)
+  if (r.success) return r.data
+  const issues = r.error.issues.map((i) => ({ path: i.path.map((p) => (typeof p === 'symbol' ? String(p) : p)), message: i.message }))
+  const first = issues[0]!
+  throw new EngineInputError(first.path, `${first.path.join('.') || 'link'}: ${first.message}`, issues)
+}
+
+const GENERAL_ASSUMPTIONS = [
+  'All times are seconds, 50 % to 50 % as datasheets define propagation delay; tPLH applies when a stage\'s output goes low to high, tPHL when it goes high to low.',
+  'The driving pin switches with an ideal edge; its 50 % crossing is the time reference of every delay.',
+  "A stage's own input switches at 50 % of the previous stage's swing unless the stage gives input thresholds; a wire and the driven direction of an rc stage pass the edge on without re-switching.",
+  'A plain CMOS input switches somewhere between VIL and VIH, one threshold per part for both edges; a Schmitt input at VT+ rising and VT- falling, independently within their ranges.',
+  'Transition times vary between their typical and maximum values; a digital stage without tr / tf is taken as an ideal (0 s) edge.',
+  "Stage delays vary independently between their min and max corners (worst case: interval sums); PWD max, where stated, bounds one part's |tPLH - tPHL|. The statistical spread treats min/max as +-3 sigma, root-sum-square over stages.",
+  'Peak jitter adds over stages and random (rms) jitter adds as root-sum-square; every edge and the sync edge move independently.',
+]
+
+const UART_ASSUMPTIONS = [
+  'The receiver re-times on the start bit\'s falling edge, detected at the first tick at or after it arrives (latency 0 to one tick); bit k is sampled at ticks k*N + s after the detection tick; majority voting is decided by the median sample, "all" by the first and last samples.',
+  'Within one frame each edge direction has one fixed chain delay; only D_rise - D_fall and jitter move edges against the sync edge. Directions are logical, after the receiver\'s inversion.',
+  'Every data value (all 2^n, with its parity) is considered; a boundary without a transition carries no risk; the receiver samples start, data, parity and the first stop bit only; back-to-back frames end the stop time at the next start edge, otherwise the idle line gives the last run no end (reported as null).',
+  'A systematic asymmetry is never credited as a benefit: the PWD interval used for margins is widened to include zero.',
+  'Each clock is anywhere within its error interval (the stated +- bound, or the generator\'s quantisation error with the oscillator tolerance on top; a generator without tolerancePpm takes errorPpm as its tolerance and a generator without fractionBits has an integer divisor). The maximum baud and the rate sweep hold the error fractions found at the configured rate; the standard-rates table recomputes each generator at each rate.',
+  'The clock tolerance reports the incoming-rate range, relative to the receiver\'s own rate, that meets the required margin with the link\'s distortion and sampler, the configured clock errors set aside.',
+  'The error-probability estimate applies the Gaussian tail of the random jitter (sqrt 2 times the edge rms, the sync edge moving too) beyond each worst-case margin; total jitter is dual-Dirac, TJ = DJ + 2 Q(BER) RJ with Q(BER) = Phi^-1(1 - BER) and DJ twice the peak jitter.',
+  'The maximum-baud search is exact (each margin in UI falls linearly with baud) up to a cap of the schema\'s 100 Mbaud limit or what each baud generator reaches with divisor 1.',
+]
+
+/** Analyse one link. Accepts the schema's input form (defaults optional) or an already parsed link. */
+export function analyzeLink(input: z.input<typeof LinkSpec> | Link): LinkAnalysis {
+  const link = parseLink(input)
+  const warnings: Warning[] = []
+  const assumptions = [...GENERAL_ASSUMPTIONS]
+
+  const chains: ChainAnalysis[] = link.channels.map((ch, i) => analyzeChain(ch, { path: ['channels', i] }))
+  const functional = chains.map((c, i) => {
+    const rx = link.channels[i]!.receiver
+    const inverted = (c.polarity === 'inverted') !== (rx.invert ?? false)
+    const unsaturated = c.stages.some((s) => s.operating && !s.operating.saturated)
+    return c.reachable && !inverted && !unsaturated
+  })
+  for (const c of chains) warnings.push(...c.warnings)
+  if (link.channels.some((ch) => ch.stages.some((s) => s.kind === 'phototransistor'))) assumptions.push(...phototransistorAssumptions())
+  const noEdge = link.channels.flatMap((ch) => ch.stages.filter((s) => s.kind === 'digital' && (!s.tr || !s.tf)).map((s) => `'${s.name}' (${ch.id})`))
+  if (noEdge.length) assumptions.push(`Stages without a stated tr or tf, taken as ideal edges: ${noEdge.join(', ')}.`)
+
+  const channels: ChannelResult[] = chains.map((c, i) => ({
+    id: c.id,
+    role: c.role,
+    rise: c.rise,
+    fall: c.fall,
+    pwd: c.pwd,
+    pwdTyp: c.pwdTyp,
+    pwdSigma: c.pwdSigma,
+    polarity: c.polarity,
+    tr: c.tr,
+    tf: c.tf,
+    riseShape: c.riseShape,
+    fallShape: c.fallShape,
+    jitterRms: c.jitterRms,
+    jitterPeak: c.jitterPeak,
+    partSkew: c.partSkew,
+    receiverTerm: c.receiverTerm,
+    functional: functional[i]!,
+    stages: c.stages.map((s) => ({
+      index: s.index,
+      name: s.name,
+      kind: s.kind,
+      inverting: s.inverting,
+      tplh: s.model.tplh,
+      tphl: s.model.tphl,
+      tr: s.model.tr,
+      tf: s.model.tf,
+      asymmetry: s.asymmetry,
+      sign: s.sign,
+      ...(s.operating ? { operating: s.operating } : {}),
+    })),
+  }))
+
+  let uart: UartResult | null = null
+  let spi: SpiResult | null = null
+  let verdict: Verdict = 'pass'
+
+  if (link.protocol === 'uart' && link.uart) {
+    assumptions.push(...UART_ASSUMPTIONS)
+    const u = link.uart
+    const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)
+    if (uartIdx.length > 1)
+      assumptions.push(
+        `The second uart channel ('${link.channels[uartIdx[1]!]!.id}') runs the other way: its transmitter is the end described by uart.rx and its receiver the end described by uart.tx, sampling with uart.rx's sampler, vote and sample point at uart.tx's oversampling (default ticks when that differs from uart.rx's).`,
+      )
+    const byChannel = uartIdx.map((ci, n) => {
+      const ends = n === 0 ? firstDirection(u) : secondDirection(u)
+      const ch = link.channels[ci]!
+      const chain = chains[ci]!
+      const r = analyzeUartChannel({
+        channelId: ch.id,
+        settings: u,
+        tx: ends.tx,
+        rx: ends.rx,
+        txKey: ends.txKey,
+        rxKey: ends.rxKey,
+        chain: { pwd: chain.pwd, jitterPeak: chain.jitterPeak, jitterRms: chain.jitterRms },
+        receiverInvert: ch.receiver.invert ?? false,
+        functionalFailure: !functional[ci],
+        path: ['uart'],
+      })
+      warnings.push(...r.warnings)
+      return r
+    })
+    let worst = byChannel[0]!
+    for (const r of byChannel) if (r.worstMarginUi < worst.worstMarginUi) worst = r
+    uart = { ...worst, byChannel }
+    verdict = worseOf(byChannel.map((r) => r.verdict))
+  }
+
+  if (link.protocol === 'spi' && link.spi) {
+    spi = analyzeSpi(link, chains)
+    warnings.push(...spi.warnings)
+    assumptions.push(...spi.assumptions)
+    verdict = spi.pass ? 'pass' : spi.worstSlack >= 0 ? 'marginal' : 'fail'
+  }
+
+  if (functional.some((f) => !f)) verdict = 'fail'
+
+  const result: LinkAnalysis = {
+    engineVersion: ENGINE_VERSION,
+    verdict,
+    channels,
+    uart,
+    spi,
+    assumptions,
+    warnings: dedupeWarnings(warnings),
+    input: link,
+  }
+  assertFinite(result)
+  return result
+}
+
+function worseOf(vs: Verdict[]): Verdict {
+  return vs.includes('fail') ? 'fail' : vs.includes('marginal') ? 'marginal' : 'pass'
+}
+
+function dedupeWarnings(ws: Warning[]): Warning[] {
+  const seen = new Set<string>()
+  return ws.filter((w) => {
+    const k = `${w.code}|${w.channel ?? ''}|${w.stage ?? ''}|${w.message}`
+    if (seen.has(k)) return false
+    seen.add(k)
+    return true
+  })
+}
+
+const clockOf = (c: { errorPpm?: number; clockHz?: number; fractionBits?: number; tolerancePpm?: number }) => ({
+  ...(c.errorPpm !== undefined ? { errorPpm: c.errorPpm } : {}),
+  ...(c.clockHz !== undefined ? { clockHz: c.clockHz } : {}),
+  ...(c.fractionBits !== undefined ? { fractionBits: c.fractionBits } : {}),
+  ...(c.tolerancePpm !== undefined ? { tolerancePpm: c.tolerancePpm } : {}),
+})
+
+type Ends = { tx: TransmitterEnd; rx: ReceiverEnd; txKey: 'tx' | 'rx'; rxKey: 'tx' | 'rx' }
+
+/** The first uart channel: uart.tx transmits, uart.rx receives. */
+function firstDirection(u: UartSettings): Ends {
+  return {
+    tx: { ...clockOf(u.tx), ...(u.tx.oversampling !== undefined ? { oversampling: u.tx.oversampling } : {}) },
+    rx: {
+      ...clockOf(u.rx),
+      sampler: u.rx.sampler,
+      oversampling: u.rx.oversampling,
+      ...(u.rx.sampleTicks ? { sampleTicks: u.rx.sampleTicks } : {}),
+      vote: u.rx.vote,
+      samplePoint: u.rx.samplePoint,
+    },
+    txKey: 'tx',
+    rxKey: 'rx',
+  }
+}
+
+/** The second uart channel: the ends swap. */
+function secondDirection(u: UartSettings): Ends {
+  const n = u.tx.oversampling ?? u.rx.oversampling
+  return {
+    tx: { ...clockOf(u.rx), oversampling: u.rx.oversampling },
+    rx: {
+      ...clockOf(u.tx),
+      sampler: u.rx.sampler,
+      oversampling: n,
+      ...(u.rx.sampleTicks && n === u.rx.oversampling ? { sampleTicks: u.rx.sampleTicks } : {}),
+      vote: u.rx.vote,
+      samplePoint: u.rx.samplePoint,
+    },
+    txKey: 'rx',
+    rxKey: 'tx',
+  }
+}
+
+/** The contract says no NaN or infinity anywhere: check the whole result (the input is already finite by the schema). */
+function assertFinite(value: unknown, path: (string | number)[] = []): void {
+  if (typeof value === 'number') {
+    if (!Number.isFinite(value))
+      throw new EngineInputError(path, `the input leads to a non-finite result at ${path.join('.')}; check the values feeding it`)
+    return
+  }
+  if (Array.isArray(value)) {
+    value.forEach((v, i) => assertFinite(v, [...path, i]))
+    return
+  }
+  if (value && typeof value === 'object') for (const [k, v] of Object.entries(value)) assertFinite(v, [...path, k])
+}

@@ -1,0 +1,289 @@
+/**
+ * Chain propagation (timing-model.md section 1): a channel's rising and falling edges
+ * carried stage by stage from the driving pin to the receiving pin.
+ *
+ * Each stage switches when its input edge crosses the stage's input threshold (50 % of
+ * the previous swing unless the stage gives `inputThreshold`), then adds tPLH or tPHL
+ * for the direction of its OUTPUT (JEDEC convention) and launches its own output edge
+ * (transition time, shape, swing). The receiving pin switches at the receiver's
+ * thresholds: a plain CMOS input anywhere between VIL and VIH (rising: min at the VIL
+ * crossing, max at the VIH crossing, typ at 50 %; falling the other way round), a
+ * Schmitt input at VT+ (rising) and VT- (falling).
+ *
+ * Chain PWD is D_rise - D_fall at the receiving pin: the sum over stages of each
+ * stage's own asymmetry (its rising-output minus falling-output delay, threshold
+ * offsets included, tightened by PWD max), with the sign flipped when an odd number of
+ * inverting stages follows it. Worst case: the interval sum. Statistical: the spreads
+ * added as root-sum-square, min/max taken as +-3 sigma.
+ */
+import type { ChannelSpec, ThresholdSpec } from '../../shared/schemas/link'
+import { thresholdFraction, thresholdOffset, type Direction } from './edges'
+import { EngineInputError } from './errors'
+import type { PhototransistorOperating } from './phototransistor'
+import { reduceStage } from './stages'
+import type { ChainResult, Corners, EdgeShape, StageEdgeModel, Warning } from './types'
+
+/** An edge at some node of the chain. */
+interface EdgeState {
+  /** delay from the driving pin's 50 % crossing to this edge's 50 % point, seconds */
+  delay: Corners
+  /** 10-90 % (rising) or 90-10 % (falling) time, seconds */
+  transition: { typ: number; max: number }
+  shape: EdgeShape
+  vLow: number
+  vHigh: number
+}
+
+/** One stage's part in the chain result. */
+export interface StageContribution {
+  index: number
+  name: string
+  kind: string
+  inverting: boolean
+  model: StageEdgeModel
+  /** (delay of its rising output) - (delay of its falling output), input threshold offsets included, seconds */
+  asymmetry: Corners
+  /** +1 or -1: the sign with which the asymmetry enters D_rise - D_fall at the receiving pin */
+  sign: 1 | -1
+  operating?: PhototransistorOperating
+}
+
+/** ChainResult plus what the report and the spread study need to see inside it. */
+export interface ChainAnalysis extends ChainResult {
+  /** nominal (typical) D_rise - D_fall, seconds */
+  pwdTyp: number
+  stages: StageContribution[]
+  /** the receiving pin's own contribution to D_rise - D_fall (threshold offsets), seconds */
+  receiverTerm: Corners
+  /** false when a threshold lies outside the swing that should cross it (the link cannot work) */
+  reachable: boolean
+}
+
+type Path = (string | number)[]
+
+const add = (a: Corners, b: Corners): Corners => ({ min: a.min + b.min, typ: a.typ + b.typ, max: a.max + b.max })
+const flipDir = (d: Direction): Direction => (d === 'rise' ? 'fall' : 'rise')
+
+/** min/typ/max of an edge's threshold offset over its transition range [typ, max] and threshold fractions `xs`. */
+function offsetCorners(direction: Direction, edge: EdgeState, xs: readonly number[], xTyp: number): Corners {
+  let min = Infinity
+  let max = -Infinity
+  for (const x of xs)
+    for (const t of [edge.transition.typ, edge.transition.max]) {
+      const o = thresholdOffset(direction, edge.shape, t, x)
+      if (o < min) min = o
+      if (o > max) max = o
+    }
+  return { min, typ: thresholdOffset(direction, edge.shape, edge.transition.typ, xTyp), max }
+}
+
+/** A threshold as its [low, high] range and typical value, volts. */
+function thresholdRange(t: ThresholdSpec): { lo: number; hi: number; typ: number } {
+  return typeof t === 'number' ? { lo: t, hi: t, typ: t } : { lo: t.min, hi: t.max, typ: (t.min + t.max) / 2 }
+}
+
+/**
+ * Propagate a channel's edges and build its chain result.
+ * @param channel the validated channel (schema defaults applied)
+ * @param options.path where the channel sits in the link, for error paths and warnings
+ */
+export function analyzeChain(channel: ChannelSpec, options: { path?: Path } = {}): ChainAnalysis {
+  const path = options.path ?? []
+  const rx = channel.receiver
+  const warnings: Warning[] = []
+  let reachable = true
+
+  // The driving pin: an ideal edge (its 50 % crossing is the time reference), 0..VDD.
+  let up: EdgeState = { delay: { min: 0, typ: 0, max: 0 }, transition: { typ: 0, max: 0 }, shape: 'ramp', vLow: 0, vHigh: rx.vdd }
+  let down: EdgeState = { ...up }
+
+  const stages: StageContribution[] = []
+  let jitterVar = 0
+  let jitterPeak = 0
+  let partSkew = 0
+
+  channel.stages.forEach((stage, i) => {
+    const stagePath = [...path, 'stages', i]
+    const { model, warnings: stageWarnings, operating } = reduceStage(stage, rx)
+    for (const w of stageWarnings) warnings.push({ ...w, channel: channel.id, stage: i })
+
+    const xRise = stage.inputThreshold?.rise ?? 0.5
+    const xFall = stage.inputThreshold?.fall ?? 0.5
+    const inputEdge = (d: Direction) => (d === 'rise' ? up : down)
+
+    // Asymmetry of the stage's own delays, tPLH - tPHL, tightened by PWD max.
+    let asymLo = model.tplh.min - model.tphl.max
+    let asymHi = model.tplh.max - model.tphl.min
+    if (model.pwdMax !== undefined) {
+      if (asymLo > model.pwdMax || asymHi < -model.pwdMax)
+        throw new EngineInputError(
+          [...stagePath, 'pwdMax'],
+          `stage '${stage.name}': PWD max ${model.pwdMax} s is below the smallest |tPLH - tPHL| its delay corners allow`,
+        )
+      asymLo = Math.max(asymLo, -model.pwdMax)
+      asymHi = Math.min(asymHi, model.pwdMax)
+    }
+    const asymTyp = Math.min(asymHi, Math.max(asymLo, model.tplh.typ - model.tphl.typ))
+
+    const out = (o: Direction): { edge: EdgeState; offset: Corners } => {
+      const delay = o === 'rise' ? model.tplh : model.tphl
+      const pass = !model.inverting && model.passThrough?.[o]
+      const input = inputEdge(model.inverting ? flipDir(o) : o)
+      if (pass) return { edge: { ...input, delay: add(input.delay, delay) }, offset: { min: 0, typ: 0, max: 0 } }
+      const inDir = model.inverting ? flipDir(o) : o
+      const x = inDir === 'rise' ? xRise : xFall
+      const offset = offsetCorners(inDir, input, [x], x)
+      return {
+        edge: {
+          delay: add(add(input.delay, offset), delay),
+          transition: o === 'rise' ? { ...model.tr } : { ...model.tf },
+          shape: o === 'rise' ? model.riseShape : model.fallShape,
+          vLow: model.vLow,
+          vHigh: model.vHigh,
+        },
+        offset,
+      }
+    }
+    const r = out('rise')
+    const f = out('fall')
+    stages.push({
+      index: i,
+      name: stage.name,
+      kind: stage.kind,
+      inverting: model.inverting,
+      model,
+      asymmetry: {
+        min: r.offset.min - f.offset.max + asymLo,
+        typ: r.offset.typ - f.offset.typ + asymTyp,
+        max: r.offset.max - f.offset.min + asymHi,
+      },
+      sign: 1,
+      ...(operating ? { operating } : {}),
+    })
+    up = r.edge
+    down = f.edge
+    jitterVar += model.jitterRms ** 2
+    jitterPeak += model.jitterPeak
+    partSkew += model.partSkew
+  })
+
+  // Signs: flipped when an odd number of inverting stages follows.
+  let after = 0
+  for (let i = stages.length - 1; i >= 0; i--) {
+    stages[i]!.sign = after % 2 === 0 ? 1 : -1
+    if (stages[i]!.inverting) after++
+  }
+  const polarity = after % 2 === 0 ? 'kept' : 'inverted'
+
+  // Threshold fractions at the receiving pin, checked against the swing that must cross them.
+  const fraction = (v: number, edge: EdgeState, field: string): number => {
+    const span = edge.vHigh - edge.vLow
+    const x = span > 0 ? thresholdFraction(v, edge.vLow, edge.vHigh) : 0.5
+    if (!(span > 0) || x <= 0 || x >= 1) {
+      if (reachable)
+        warnings.push({
+          code: 'threshold-unreachable',
+          channel: channel.id,
+          message: `Channel '${channel.id}': the receiver threshold ${field} = ${v} V is outside the swing ${edge.vLow}..${edge.vHigh} V that drives it, so the input never switches there. The link cannot work; the timing shown clamps the threshold into the swing.`,
+        })
+      reachable = false
+      return Math.min(0.99, Math.max(0.01, x))
+    }
+    return x
+  }
+
+  let recvRise: Corners
+  let recvFall: Corners
+  let receiverTerm: Corners
+  if (rx.schmitt && rx.vtPlus !== undefined && rx.vtMinus !== undefined) {
+    const p = thresholdRange(rx.vtPlus)
+    const m = thresholdRange(rx.vtMinus)
+    const xp = [fraction(p.lo, up, 'VT+'), fraction(p.hi, up, 'VT+')]
+    const xm = [fraction(m.lo, down, 'VT-'), fraction(m.hi, down, 'VT-')]
+    recvRise = offsetCorners('rise', up, xp, fraction(p.typ, up, 'VT+'))
+    recvFall = offsetCorners('fall', down, xm, fraction(m.typ, down, 'VT-'))
+    // VT+ and VT- are separate thresholds: independent ranges.
+    receiverTerm = { min: recvRise.min - recvFall.max, typ: recvRise.typ - recvFall.typ, max: recvRise.max - recvFall.min }
+  } else {
+    const xUp = [fraction(rx.vil, up, 'VIL'), fraction(rx.vih, up, 'VIH')]
+    const xDown = [fraction(rx.vil, down, 'VIL'), fraction(rx.vih, down, 'VIH')]
+    recvRise = offsetCorners('rise', up, xUp, 0.5)
+    recvFall = offsetCorners('fall', down, xDown, 0.5)
+    // A plain CMOS input has one switching threshold somewhere in VIL..VIH, the same for
+    // both edges of one part: D_rise - D_fall is monotone in it, so its extremes are at
+    // VIL and VIH with each edge's transition time at its typ or max.
+    let min = Infinity
+    let max = -Infinity
+    for (let k = 0; k < 2; k++)
+      for (const tr of [up.transition.typ, up.transition.max])
+        for (const tf of [down.transition.typ, down.transition.max]) {
+          const v = thresholdOffset('rise', up.shape, tr, xUp[k]!) - thresholdOffset('fall', down.shape, tf, xDown[k]!)
+          if (v < min) min = v
+          if (v > max) max = v
+        }
+    receiverTerm = { min, typ: recvRise.typ - recvFall.typ, max }
+  }
+
+  const rise = add(up.delay, recvRise)
+  const fall = add(down.delay, recvFall)
+  let pwdMin = receiverTerm.min
+  let pwdMax = receiverTerm.max
+  let pwdVar = ((receiverTerm.max - receiverTerm.min) / 6) ** 2
+  for (const s of stages) {
+    if (s.sign > 0) {
+      pwdMin += s.asymmetry.min
+      pwdMax += s.asymmetry.max
+    } else {
+      pwdMin -= s.asymmetry.max
+      pwdMax -= s.asymmetry.min
+    }
+    pwdVar += ((s.asymmetry.max - s.asymmetry.min) / 6) ** 2
+  }
+
+  const tr = { ...up.transition }
+  const tf = { ...down.transition }
+  if (!rx.schmitt && rx.maxInputTransition !== undefined) {
+    const worst = Math.max(tr.max, tf.max)
+    if (worst > rx.maxInputTransition)
+      warnings.push({
+        code: 'slow-edge',
+        channel: channel.id,
+        message: `Channel '${channel.id}': the received ${tr.max >= tf.max ? 'rise' : 'fall'} time ${worst.toExponential(3)} s exceeds the receiver's maximum input transition ${rx.maxInputTransition.toExponential(3)} s on a non-Schmitt input; the input may oscillate or draw shoot-through current. Use a Schmitt-trigger input or a faster edge (smaller pull-up).`,
+      })
+  }
+
+  const logicallyInverted = (polarity === 'inverted') !== (rx.invert ?? false)
+  if (logicallyInverted) {
+    const nInv = stages.filter((s) => s.inverting).length
+    warnings.push({
+      code: 'inverted-polarity',
+      channel: channel.id,
+      message:
+        polarity === 'inverted'
+          ? `Channel '${channel.id}' ends inverted (${nInv} inverting stage${nInv === 1 ? '' : 's'}) and its receiver does not invert: the line idles at the wrong level and every bit reads inverted. Fix it with a second inverting stage in the chain, or by enabling the receiver's inversion.`
+          : `Channel '${channel.id}' keeps its polarity but the receiver is set to invert: every bit reads inverted. Turn the receiver's inversion off, or add an inverting stage.`,
+    })
+  }
+
+  return {
+    id: channel.id,
+    role: channel.role,
+    rise,
+    fall,
+    pwd: { min: pwdMin, max: pwdMax },
+    pwdTyp: rise.typ - fall.typ,
+    pwdSigma: Math.sqrt(pwdVar),
+    polarity,
+    tr,
+    tf,
+    riseShape: up.shape,
+    fallShape: down.shape,
+    jitterRms: Math.sqrt(jitterVar),
+    jitterPeak,
+    partSkew,
+    warnings,
+    stages,
+    receiverTerm,
+    reachable,
+  }
+}

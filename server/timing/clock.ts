@@ -1,0 +1,88 @@
+/**
+ * UART clocks (timing-model.md section 2, "Clocks"): the baud-rate generator's
+ * quantisation and each end's bit-rate error bound.
+ *
+ * A generator divides its peripheral clock f by N * divisor, N the oversampling; the
+ * divisor f / (N * baud) is rounded to its resolution 1/2^fractionBits (an integer for
+ * 0 fraction bits), at least 1. The actual rate f / (N * divisor) differs from the
+ * requested one by the quantisation error; the oscillator's own tolerance comes on top.
+ */
+import { EngineInputError } from './errors'
+
+export interface BaudGeneratorResult {
+  /** the divisor the generator is programmed with (a multiple of 1/2^fractionBits, >= 1) */
+  divisor: number
+  /** the rate it produces, baud */
+  actualBaud: number
+  /** actualBaud / baud - 1 (signed fraction; +0.0064 = +0.64 %) */
+  error: number
+}
+
+/**
+ * The divisor, actual rate and error of a baud generator.
+ * @param clockHz peripheral clock, hertz
+ * @param oversampling ticks per bit N (16, 8 ...)
+ * @param fractionBits fractional bits of the divisor (0 integer, 4 for 1/16 steps)
+ * @param baud requested rate, baud
+ */
+export function baudGenerator(clockHz: number, oversampling: number, fractionBits: number, baud: number): BaudGeneratorResult {
+  if (!(clockHz > 0) || !Number.isFinite(clockHz)) throw new EngineInputError(['clockHz'], 'the generator clock must be a positive number of hertz')
+  if (!Number.isInteger(oversampling) || oversampling < 1) throw new EngineInputError(['oversampling'], 'oversampling must be a positive integer')
+  if (!Number.isInteger(fractionBits) || fractionBits < 0 || fractionBits > 16) throw new EngineInputError(['fractionBits'], 'fractionBits must be an integer 0 to 16')
+  if (!(baud > 0) || !Number.isFinite(baud)) throw new EngineInputError(['baud'], 'baud must be a positive number')
+  const steps = 2 ** fractionBits
+  const exact = clockHz / (oversampling * baud)
+  const divisor = Math.max(1, Math.round(exact * steps) / steps)
+  const actualBaud = clockHz / (oversampling * divisor)
+  return { divisor, actualBaud, error: actualBaud / baud - 1 }
+}
+
+/** The clock fields of one UART end, as in the link schema. */
+export interface ClockSpec {
+  errorPpm?: number
+  clockHz?: number
+  fractionBits?: number
+  tolerancePpm?: number
+}
+
+/** Bit-rate error interval of one end, fractions of the nominal rate (rate = baud * (1 + e)). */
+export interface RateErrorBounds {
+  /** lowest rate error, fraction (negative: slow) */
+  min: number
+  /** highest rate error, fraction */
+  max: number
+  /** the generator's divisor and quantisation error, when the end has a generator */
+  generator: BaudGeneratorResult | null
+  /** the oscillator tolerance used, ppm */
+  tolerancePpm: number
+}
+
+/**
+ * Rate error bounds of one end at `baud`: a stated +-errorPpm, or the generator's
+ * quantisation error combined with the oscillator tolerance,
+ * rate = actualBaud * (1 +- tolerance). With a generator, errorPpm (when given and
+ * tolerancePpm is not) is taken as the oscillator tolerance.
+ */
+export function rateErrorBounds(spec: ClockSpec, baud: number, oversampling: number): RateErrorBounds {
+  if (spec.clockHz !== undefined) {
+    const generator = baudGenerator(spec.clockHz, oversampling, spec.fractionBits ?? 0, baud)
+    const tolerancePpm = spec.tolerancePpm ?? spec.errorPpm ?? 0
+    const tol = tolerancePpm * 1e-6
+    return {
+      min: (1 + generator.error) * (1 - tol) - 1,
+      max: (1 + generator.error) * (1 + tol) - 1,
+      generator,
+      tolerancePpm,
+    }
+  }
+  const e = (spec.errorPpm ?? 0) * 1e-6
+  return { min: -e, max: e, generator: null, tolerancePpm: spec.errorPpm ?? 0 }
+}
+
+/**
+ * Bit-time bounds of one end, seconds: T = 1 / (baud * (1 + e)) over the error interval.
+ * The shortest bit belongs to the fastest clock.
+ */
+export function bitTimeBounds(bounds: Pick<RateErrorBounds, 'min' | 'max'>, baud: number): { min: number; max: number } {
+  return { min: 1 / (baud * (1 + bounds.max)), max: 1 / (baud * (1 + bounds.min)) }
+}

@@ -1,0 +1,109 @@
+/**
+ * Every stage kind reduced to the chain's StageEdgeModel (timing-model.md section 1):
+ *
+ * - digital: the datasheet's inverting flag, tPLH / tPHL corners, PWD max, tr / tf and
+ *   edge shape, as entered;
+ * - wire: a symmetric delay length * delayPerMeter that passes the edge on unchanged;
+ * - rc: a resistor charging a capacitance in the passive direction, an exponential edge
+ *   with tr = RC ln 9 and its 50 % point 0.693 RC (RC ln 2) after the switch releases;
+ *   the active direction passes the driving edge on with no added delay;
+ * - phototransistor: the phototransistor module's model (operating point, fits).
+ */
+import type { ChannelSpec, DigitalStage, RcStage, StageSpec, WireStage } from '../../shared/schemas/link'
+import { LN2, LN9 } from './edges'
+import { phototransistorModel, type PhototransistorOperating } from './phototransistor'
+import type { Corners, StageEdgeModel, Warning } from './types'
+
+export interface StageReduction {
+  model: StageEdgeModel
+  warnings: Warning[]
+  /** static operating point, phototransistor stages only */
+  operating?: PhototransistorOperating
+}
+
+const fixed = (t: number): Corners => ({ min: t, typ: t, max: t })
+const ideal = { typ: 0, max: 0 }
+
+/** Default output swing of a non-phototransistor stage: 0 V to the receiver's supply. */
+function swing(stage: StageSpec, receiverVdd: number): { vLow: number; vHigh: number } {
+  return { vLow: stage.vLow ?? 0, vHigh: stage.vHigh ?? receiverVdd }
+}
+
+/** A digital stage (coupler with logic output, digital isolator, buffer) as entered. */
+export function digitalStageModel(stage: DigitalStage, receiverVdd: number): StageEdgeModel {
+  const shape = stage.edge ?? 'ramp'
+  return {
+    inverting: stage.inverting ?? false,
+    tplh: { ...stage.tplh },
+    tphl: { ...stage.tphl },
+    ...(stage.pwdMax !== undefined ? { pwdMax: stage.pwdMax } : {}),
+    tr: stage.tr ? { typ: stage.tr.typ, max: stage.tr.max } : { ...ideal },
+    tf: stage.tf ? { typ: stage.tf.typ, max: stage.tf.max } : { ...ideal },
+    riseShape: shape,
+    fallShape: shape,
+    ...swing(stage, receiverVdd),
+    partSkew: stage.partSkew ?? 0,
+    jitterRms: stage.jitterRms ?? 0,
+    jitterPeak: stage.jitterPeak ?? 0,
+  }
+}
+
+/** A wire: symmetric delay length * delayPerMeter (default 5 ns/m), no distortion. */
+export function wireStageModel(stage: WireStage, receiverVdd: number): StageEdgeModel {
+  const d = stage.length * (stage.delayPerMeter ?? 5e-9)
+  return {
+    inverting: false,
+    tplh: fixed(d),
+    tphl: fixed(d),
+    tr: { ...ideal },
+    tf: { ...ideal },
+    riseShape: 'ramp',
+    fallShape: 'ramp',
+    ...swing(stage, receiverVdd),
+    partSkew: stage.partSkew ?? 0,
+    jitterRms: stage.jitterRms ?? 0,
+    jitterPeak: stage.jitterPeak ?? 0,
+    passThrough: { rise: true, fall: true },
+  }
+}
+
+/**
+ * An RC node (an open-drain output with a pull-up, a filter): in the passive direction
+ * v(t) = V(1 - e^(-t/RC)) from the instant the driver releases, so tr = RC ln 9 and the
+ * 50 % point is RC ln 2 later; the active direction is the driver's own edge.
+ */
+export function rcStageModel(stage: RcStage, receiverVdd: number): StageEdgeModel {
+  const rc = stage.r * stage.c
+  const passiveRise = (stage.passive ?? 'rise') === 'rise'
+  const passiveEdge = { typ: rc * LN9, max: rc * LN9 }
+  return {
+    inverting: false,
+    tplh: fixed(passiveRise ? rc * LN2 : 0),
+    tphl: fixed(passiveRise ? 0 : rc * LN2),
+    tr: passiveRise ? passiveEdge : { ...ideal },
+    tf: passiveRise ? { ...ideal } : passiveEdge,
+    riseShape: passiveRise ? 'exponential' : 'ramp',
+    fallShape: passiveRise ? 'ramp' : 'exponential',
+    ...swing(stage, receiverVdd),
+    partSkew: stage.partSkew ?? 0,
+    jitterRms: stage.jitterRms ?? 0,
+    jitterPeak: stage.jitterPeak ?? 0,
+    passThrough: { rise: !passiveRise, fall: passiveRise },
+  }
+}
+
+/** Reduce one stage of a channel to its edge model, with the stage's own warnings. */
+export function reduceStage(stage: StageSpec, receiver: Pick<ChannelSpec['receiver'], 'vdd'>): StageReduction {
+  switch (stage.kind) {
+    case 'digital':
+      return { model: digitalStageModel(stage, receiver.vdd), warnings: [] }
+    case 'wire':
+      return { model: wireStageModel(stage, receiver.vdd), warnings: [] }
+    case 'rc':
+      return { model: rcStageModel(stage, receiver.vdd), warnings: [] }
+    case 'phototransistor': {
+      const r = phototransistorModel(stage)
+      return { model: r.model, warnings: r.warnings, operating: r.operating }
+    }
+  }
+}

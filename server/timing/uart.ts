@@ -1,0 +1,753 @@
+/**
+ * UART per-bit margin against the sampling point (timing-model.md section 2).
+ *
+ * Receiver model: a tick clock of N ticks per receiver bit T_rx. The start bit is
+ * detected at the first tick at or after the falling edge arrives (detection latency in
+ * [0, T_rx/N)); bit k (k = 0 the start bit) is sampled at ticks k*N + s_j after the
+ * detection tick. Vote: `single` (one tick), `majority` (the median tick decides both
+ * sides), `all` (the first tick decides the early side, the last the late side). The
+ * `ideal` sampler samples at (k + samplePoint) * T_rx with no latency.
+ *
+ * Received edges, relative to the arrival of the start bit's falling edge (the receiver
+ * re-times on it, so a common delay cancels): boundary j (the start of bit j) arrives at
+ * j*T_tx if its edge falls, j*T_tx + (D_rise - D_fall) if it rises, each +- the peak
+ * jitter of that edge and of the sync edge. Directions are logical (after the
+ * receiver's invert).
+ *
+ * Margins: a bit is valid from the transition that starts its run of equal bits to the
+ * transition that ends it (no transition at a boundary: no risk there; an idle line
+ * after the stop bit: no end). Early margin = earliest critical sample - latest start of
+ * the run; late margin = earliest end of the run - latest critical sample; each the
+ * worst over detection latency, both clocks' error intervals, the PWD interval and
+ * jitter. Every term is linear in those quantities, so the worst case sits at their
+ * interval ends and is written in closed form; the worst over all 2^n data patterns
+ * (parity following) depends only on where each bit's run starts and ends and in which
+ * direction, so the frame's patterns are enumerated once per frame format into those
+ * cases.
+ *
+ * In closed form every case's margin in UI is A - baud * b, with A fixed by the frame,
+ * the sampler and the clock error fractions and b >= 0 the distortion (asymmetry and
+ * jitter, seconds). So the margin in UI never rises with baud, the maximum baud has a
+ * closed form, and the clock tolerance follows from one linear inequality per case.
+ */
+import type { UartSettings } from '../../shared/schemas/link'
+import { bitTimeBounds, rateErrorBounds, type BaudGeneratorResult, type ClockSpec, type RateErrorBounds } from './clock'
+import { EngineInputError } from './errors'
+import { gaussianTail, qFromBer, totalJitter } from './statistics'
+import type { Warning } from './types'
+
+// ------------------------------------------------------------------ frame
+
+export type Parity = UartSettings['parity']
+
+/** One way a bit's run can start (early side) or end (late side), with a data value that produces it. */
+export interface FrameCase {
+  /** bit index (0 = start bit) */
+  bit: number
+  /** position of the boundary in transmitter bit times from the start edge (the start of bit `pos`; the next start edge at the frame length) */
+  pos: number
+  /** the logical edge at that boundary rises */
+  rising: boolean
+  /** the boundary is the start bit's own falling edge (the sync edge) */
+  sync: boolean
+  /** smallest data value that produces this case */
+  pattern: number
+}
+
+export interface FrameLayout {
+  dataBits: number
+  parity: Parity
+  stopBits: number
+  backToBack: boolean
+  /** labels of the sampled bits: start, d0.., parity, stop */
+  labels: string[]
+  /** frame length in bit times (start + data + parity + stop bits) */
+  frameBits: number
+  early: FrameCase[][]
+  late: FrameCase[][]
+  /** per bit: some data value leaves its run without an end (idle line after the stop bit) */
+  lateUnbounded: boolean[]
+}
+
+const layoutCache = new Map<string, FrameLayout>()
+
+/** The parity bit that follows from a data value. */
+export function parityBit(parity: Parity, value: number): number | null {
+  if (parity === 'none') return null
+  if (parity === 'mark') return 1
+  if (parity === 'space') return 0
+  let ones = 0
+  for (let v = value; v; v >>>= 1) ones += v & 1
+  return parity === 'even' ? ones & 1 : 1 - (ones & 1)
+}
+
+/**
+ * The frame's bits for one data value: start (0), data LSB first, parity, first stop (1).
+ * Only the sampled bits; the frame length is in FrameLayout.frameBits.
+ */
+export function frameBits(dataBits: number, parity: Parity, value: number): number[] {
+  const bits = [0]
+  for (let i = 0; i < dataBits; i++) bits.push((value >>> i) & 1)
+  const p = parityBit(parity, value)
+  if (p !== null) bits.push(p)
+  bits.push(1)
+  return bits
+}
+
+/** Enumerate every data value of a frame format into each bit's run-start and run-end cases (cached). */
+export function frameLayout(dataBits: number, parity: Parity, stopBits: number, backToBack: boolean): FrameLayout {
+  const key = `${dataBits}|${parity}|${stopBits}|${backToBack}`
+  const hit = layoutCache.get(key)
+  if (hit) return hit
+  const labels = ['start', ...Array.from({ length: dataBits }, (_, i) => `d${i}`), ...(parity === 'none' ? [] : ['parity']), 'stop']
+  const K = labels.length - 1
+  const frameLen = 1 + dataBits + (parity === 'none' ? 0 : 1) + stopBits
+  const early: Map<string, FrameCase>[] = labels.map(() => new Map())
+  const late: Map<string, FrameCase>[] = labels.map(() => new Map())
+  const lateUnbounded = labels.map(() => false)
+  for (let v = 0; v < 1 << dataBits; v++) {
+    const b = frameBits(dataBits, parity, v)
+    for (let k = 0; k <= K; k++) {
+      let a = k
+      while (a > 0 && b[a - 1] === b[k]) a--
+      const rising = b[k] === 1
+      const ek = `${a}|${b[k]}`
+      if (!early[k]!.has(ek)) early[k]!.set(ek, { bit: k, pos: a, rising: a > 0 && rising, sync: a === 0, pattern: v })
+      let e = k + 1
+      while (e <= K && b[e] === b[k]) e++
+      if (e <= K) {
+        if (!late[k]!.has(`${e}|${b[k]}`)) late[k]!.set(`${e}|${b[k]}`, { bit: k, pos: e, rising: b[k] === 0, sync: false, pattern: v })
+      } else if (backToBack) {
+        // the run reaches the stop bit and ends at the next frame's start edge (falling)
+        if (!late[k]!.has('next')) late[k]!.set('next', { bit: k, pos: frameLen, rising: false, sync: false, pattern: v })
+      } else lateUnbounded[k] = true
+    }
+  }
+  const layout: FrameLayout = {
+    dataBits,
+    parity,
+    stopBits,
+    backToBack,
+    labels,
+    frameBits: frameLen,
+    early: early.map((m) => [...m.values()]),
+    late: late.map((m) => [...m.values()]),
+    lateUnbounded,
+  }
+  layoutCache.set(key, layout)
+  return layout
+}
+
+// ------------------------------------------------------------------ sampler
+
+export type Vote = 'single' | 'majority' | 'all'
+
+/** Receiver-side settings of one direction (the rx of the first uart channel, or the tx end for the second). */
+export interface ReceiverEnd extends ClockSpec {
+  sampler: 'ticks' | 'ideal'
+  oversampling: number
+  sampleTicks?: number[]
+  vote: Vote
+  samplePoint: number
+}
+
+/** Transmitter-side settings of one direction. */
+export interface TransmitterEnd extends ClockSpec {
+  oversampling?: number
+}
+
+export interface SamplerModel {
+  kind: 'ticks' | 'ideal'
+  oversampling: number | null
+  ticks: number[] | null
+  vote: Vote | null
+  /** position of the sample deciding the early side, receiver bit times after the bit's nominal start */
+  early: number
+  /** position of the sample deciding the late side, receiver bit times */
+  late: number
+  /** largest detection latency, receiver bit times (1/N; 0 for the ideal sampler) */
+  latency: number
+}
+
+/** Default sample ticks after the detection tick: the middle tick and, for a vote, its neighbours (16x: 7, 8, 9; 8x: 3, 4, 5). */
+export function defaultSampleTicks(oversampling: number, vote: Vote): number[] {
+  const c = Math.floor(oversampling / 2)
+  return vote === 'single' ? [c] : [c - 1, c, c + 1]
+}
+
+/** Reduce a receiver's sampling scheme to its critical sample positions. */
+export function samplerModel(rx: ReceiverEnd, path: (string | number)[] = ['uart', 'rx']): SamplerModel {
+  if (rx.sampler === 'ideal')
+    return { kind: 'ideal', oversampling: null, ticks: null, vote: null, early: rx.samplePoint, late: rx.samplePoint, latency: 0 }
+  const n = rx.oversampling
+  const ticks = rx.sampleTicks && rx.sampleTicks.length ? [...rx.sampleTicks] : defaultSampleTicks(n, rx.vote)
+  if (ticks.some((t, i) => !Number.isInteger(t) || t < 0 || t >= n || (i > 0 && t <= ticks[i - 1]!)))
+    throw new EngineInputError([...path, 'sampleTicks'], 'sample ticks must be strictly increasing integers below the oversampling')
+  if (rx.vote === 'single' && ticks.length !== 1) throw new EngineInputError([...path, 'sampleTicks'], "vote 'single' takes exactly one tick")
+  if (rx.vote === 'majority' && (ticks.length < 3 || ticks.length % 2 === 0))
+    throw new EngineInputError([...path, 'sampleTicks'], "vote 'majority' takes an odd number of at least three ticks")
+  const median = ticks[(ticks.length - 1) >> 1]!
+  const first = rx.vote === 'majority' ? median : ticks[0]!
+  const last = rx.vote === 'majority' ? median : ticks[ticks.length - 1]!
+  return { kind: 'ticks', oversampling: n, ticks, vote: rx.vote, early: first / n, late: last / n, latency: 1 / n }
+}
+
+// ------------------------------------------------------------------ margins
+
+export type LimitedBy = 'asymmetry' | 'clock' | 'sampling' | 'jitter'
+
+/** Distortion of the received edges, seconds, logical directions. */
+export interface Distortion {
+  /** D_rise - D_fall interval (logical), seconds */
+  pwd: { min: number; max: number }
+  /** peak jitter of one edge, seconds */
+  jitterPeak: number
+  /** rms jitter of one edge, seconds */
+  jitterRms: number
+}
+
+/** Rate error intervals of both ends, fractions (rate = baud * (1 + e)). */
+export interface ClockErrors {
+  tx: { min: number; max: number }
+  rx: { min: number; max: number }
+}
+
+interface CaseTerms {
+  /** the UI-invariant part of the margin, UI */
+  A: number
+  /** the distortion part, seconds (margin = A * T - b) */
+  b: number
+}
+
+/**
+ * The asymmetry a systematic PWD can cost a case: rising run starts arrive up to
+ * max(PWD max, 0) late, rising run ends up to -min(PWD min, 0) early. An asymmetry is
+ * never credited as a benefit (see the assumptions).
+ */
+function asymmetryLoss(c: FrameCase, side: 'early' | 'late', d: Distortion): number {
+  if (!c.rising) return 0
+  return side === 'early' ? Math.max(d.pwd.max, 0) : -Math.min(d.pwd.min, 0)
+}
+
+function jitterLoss(c: FrameCase, side: 'early' | 'late', d: Distortion): number {
+  return side === 'early' && c.sync ? 0 : 2 * d.jitterPeak
+}
+
+function caseTerms(c: FrameCase, side: 'early' | 'late', s: SamplerModel, d: Distortion, e: ClockErrors): CaseTerms {
+  const b = asymmetryLoss(c, side, d) + jitterLoss(c, side, d)
+  if (side === 'early') return { A: (c.bit + s.early) / (1 + e.rx.max) - c.pos / (1 + e.tx.min), b }
+  return { A: c.pos / (1 + e.tx.max) - (c.bit + s.late + s.latency) / (1 + e.rx.min), b }
+}
+
+export interface MarginLosses {
+  /** sample position and detection latency against an ideal mid-bit sample, seconds */
+  sampling: number
+  /** both clocks' error over the bits from the sync edge, seconds */
+  clock: number
+  /** PWD, seconds */
+  asymmetry: number
+  /** peak jitter of the edge and of the sync edge, seconds */
+  jitter: number
+}
+
+export interface UartBitResult {
+  index: number
+  label: string
+  /** worst early margin, seconds */
+  earlyMargin: number
+  /** worst late margin, seconds; null when the bit's run never ends for any data value */
+  lateMargin: number | null
+  /** min(early, late), seconds */
+  margin: number
+  /** margin in unit intervals (nominal bit times) */
+  marginUi: number
+  earlyMarginUi: number
+  lateMarginUi: number | null
+  /** data value that gives this bit its worst margin */
+  worstPattern: number
+  earlyPattern: number
+  latePattern: number | null
+  /** the side that sets the margin */
+  side: 'early' | 'late'
+  /** the largest loss on that side */
+  limitedBy: LimitedBy
+  losses: MarginLosses
+  /** the deciding samples relative to the start edge's arrival, seconds: earliest (early side), latest (late side) */
+  samples: { earliest: number; latest: number }
+  /** worst-case valid window of the bit's run relative to the start edge's arrival, seconds (validTo null: no end) */
+  validFrom: number
+  validTo: number | null
+}
+
+function losses(c: FrameCase, side: 'early' | 'late', s: SamplerModel, d: Distortion, e: ClockErrors, T: number): MarginLosses {
+  const txT = bitTimeBounds(e.tx, 1 / T)
+  const rxT = bitTimeBounds(e.rx, 1 / T)
+  if (side === 'early') {
+    const cE = c.bit + s.early
+    return {
+      sampling: (0.5 - s.early) * T,
+      clock: cE * (T - rxT.min) + c.pos * (txT.max - T),
+      asymmetry: asymmetryLoss(c, side, d),
+      jitter: jitterLoss(c, side, d),
+    }
+  }
+  const cL = c.bit + s.late + s.latency
+  return {
+    sampling: (s.late + s.latency - 0.5) * T,
+    clock: cL * (rxT.max - T) + c.pos * (T - txT.min),
+    asymmetry: asymmetryLoss(c, side, d),
+    jitter: jitterLoss(c, side, d),
+  }
+}
+
+function largestLoss(l: MarginLosses): LimitedBy {
+  let best: LimitedBy = 'sampling'
+  let v = l.sampling
+  for (const k of ['clock', 'asymmetry', 'jitter'] as const)
+    if (l[k] > v) {
+      v = l[k]
+      best = k
+    }
+  return best
+}
+
+/** Per-bit margins of a frame at `baud` (timing-model.md section 2, "Margins"). */
+export function bitMargins(layout: FrameLayout, s: SamplerModel, d: Distortion, e: ClockErrors, baud: number): UartBitResult[] {
+  const T = 1 / baud
+  const txT = bitTimeBounds(e.tx, baud)
+  const rxT = bitTimeBounds(e.rx, baud)
+  return layout.labels.map((label, k) => {
+    let early = Infinity
+    let earlyCase: FrameCase | null = null
+    for (const c of layout.early[k]!) {
+      const t = caseTerms(c, 'early', s, d, e)
+      const m = t.A * T - t.b
+      if (m < early) {
+        early = m
+        earlyCase = c
+      }
+    }
+    let late = Infinity
+    let lateCase: FrameCase | null = null
+    for (const c of layout.late[k]!) {
+      const t = caseTerms(c, 'late', s, d, e)
+      const m = t.A * T - t.b
+      if (m < late) {
+        late = m
+        lateCase = c
+      }
+    }
+    const ec = earlyCase!
+    const side: 'early' | 'late' = lateCase && late < early ? 'late' : 'early'
+    const worst = side === 'late' ? lateCase! : ec
+    const margin = side === 'late' ? late : early
+    const l = losses(worst, side, s, d, e, T)
+    return {
+      index: k,
+      label,
+      earlyMargin: early,
+      lateMargin: lateCase ? late : null,
+      margin,
+      marginUi: margin / T,
+      earlyMarginUi: early / T,
+      lateMarginUi: lateCase ? late / T : null,
+      worstPattern: worst.pattern,
+      earlyPattern: ec.pattern,
+      latePattern: lateCase ? lateCase.pattern : null,
+      side,
+      limitedBy: largestLoss(l),
+      losses: l,
+      samples: { earliest: (k + s.early) * rxT.min, latest: (k + s.late + s.latency) * rxT.max },
+      validFrom: ec.pos * txT.max + asymmetryLoss(ec, 'early', d) + jitterLoss(ec, 'early', d),
+      validTo: lateCase
+        ? lateCase.pos * txT.min - asymmetryLoss(lateCase, 'late', d) - jitterLoss(lateCase, 'late', d)
+        : null,
+    }
+  })
+}
+
+/** Every case of a frame as margin(UI) = A - baud * b, flattened for repeated evaluation. */
+export interface CaseTable {
+  A: Float64Array
+  b: Float64Array
+}
+
+export function caseTable(layout: FrameLayout, s: SamplerModel, d: Distortion, e: ClockErrors): CaseTable {
+  let n = 0
+  for (let k = 0; k < layout.labels.length; k++) n += layout.early[k]!.length + layout.late[k]!.length
+  const A = new Float64Array(n)
+  const b = new Float64Array(n)
+  let i = 0
+  for (let k = 0; k < layout.labels.length; k++)
+    for (const side of ['early', 'late'] as const)
+      for (const c of side === 'early' ? layout.early[k]! : layout.late[k]!) {
+        const t = caseTerms(c, side, s, d, e)
+        A[i] = t.A
+        b[i++] = t.b
+      }
+  return { A, b }
+}
+
+/** Worst margin of the whole frame in UI at `baud` from a case table. */
+export function tableWorstUi(t: CaseTable, baud: number): number {
+  let worst = Infinity
+  const { A, b } = t
+  for (let i = 0; i < A.length; i++) {
+    const m = A[i]! - baud * b[i]!
+    if (m < worst) worst = m
+  }
+  return worst
+}
+
+/** Worst margin of the whole frame in UI at `baud`, from the closed form (no per-bit detail). */
+export function worstMarginUi(layout: FrameLayout, s: SamplerModel, d: Distortion, e: ClockErrors, baud: number): number {
+  return tableWorstUi(caseTable(layout, s, d, e), baud)
+}
+
+export interface MaxBaudResult {
+  /** highest baud meeting the required margin; the cap when distortion never limits below it; null when no rate passes */
+  maxBaud: number | null
+  cap: number
+  capped: boolean
+  /** the bit (and side) that sets it; null when capped or when nothing passes because of a distortion-free term */
+  limitedBy: { index: number; label: string; side: 'early' | 'late' } | null
+  note: string
+}
+
+/**
+ * Maximum baud meeting `requiredUi` with the clock error fractions held fixed: every
+ * case requires A - baud * b >= requiredUi, so baud <= (A - requiredUi) / b for b > 0;
+ * a case with b = 0 passes at every rate or at none.
+ */
+export function maxBaud(layout: FrameLayout, s: SamplerModel, d: Distortion, e: ClockErrors, requiredUi: number, cap: number): MaxBaudResult {
+  let limit = Infinity
+  let limiting: { index: number; label: string; side: 'early' | 'late' } | null = null
+  for (let k = 0; k < layout.labels.length; k++)
+    for (const side of ['early', 'late'] as const)
+      for (const c of side === 'early' ? layout.early[k]! : layout.late[k]!) {
+        const t = caseTerms(c, side, s, d, e)
+        const where = { index: k, label: layout.labels[k]!, side }
+        if (t.b <= 0) {
+          if (t.A < requiredUi)
+            return {
+              maxBaud: null,
+              cap,
+              capped: false,
+              limitedBy: where,
+              note: `No rate meets the required margin: bit ${where.label} (${side} side) falls short at any baud, because of the clocks and the sampling point alone.`,
+            }
+          continue
+        }
+        if (t.A <= requiredUi)
+          return {
+            maxBaud: null,
+            cap,
+            capped: false,
+            limitedBy: where,
+            note: `No rate meets the required margin: bit ${where.label} (${side} side) falls short even at the lowest rates.`,
+          }
+        const b = (t.A - requiredUi) / t.b
+        if (b < limit) {
+          limit = b
+          limiting = where
+        }
+      }
+  if (limit >= cap)
+    return {
+      maxBaud: cap,
+      cap,
+      capped: true,
+      limitedBy: null,
+      note: `Distortion does not limit the rate up to the search cap of ${cap} baud; the cap is reported.`,
+    }
+  return {
+    maxBaud: limit,
+    cap,
+    capped: false,
+    limitedBy: limiting,
+    note: `Limited by bit ${limiting!.label} (${limiting!.side} side).`,
+  }
+}
+
+export interface ClockTolerance {
+  /** lowest incoming rate / receiver rate that still meets the required margin; null when none does */
+  slowest: number | null
+  /** highest incoming rate / receiver rate; null when none does */
+  fastest: number | null
+  /** the bits that set each bound */
+  slowestBit: number | null
+  fastestBit: number | null
+}
+
+/**
+ * The incoming-rate range the frame tolerates (clock errors of both ends set aside):
+ * receiver exactly at `baud`, transmitter bit T/r. Early cases need
+ * (bit + early) - pos / r >= requiredUi + b/T, late cases pos / r - (bit + late + latency)
+ * >= requiredUi + b/T: each a bound on r.
+ */
+export function clockTolerance(layout: FrameLayout, s: SamplerModel, d: Distortion, baud: number, requiredUi: number): ClockTolerance {
+  const none: ClockTolerance = { slowest: null, fastest: null, slowestBit: null, fastestBit: null }
+  let slowest = 0
+  let slowestBit: number | null = null
+  let fastest = Infinity
+  let fastestBit: number | null = null
+  for (let k = 0; k < layout.labels.length; k++) {
+    for (const c of layout.early[k]!) {
+      const room = c.bit + s.early - requiredUi - baud * (asymmetryLoss(c, 'early', d) + jitterLoss(c, 'early', d))
+      if (c.pos === 0) {
+        if (room < 0) return none
+        continue
+      }
+      if (room <= 0) return none
+      const r = c.pos / room
+      if (r > slowest) {
+        slowest = r
+        slowestBit = k
+      }
+    }
+    for (const c of layout.late[k]!) {
+      const need = c.bit + s.late + s.latency + requiredUi + baud * (asymmetryLoss(c, 'late', d) + jitterLoss(c, 'late', d))
+      const r = c.pos / need
+      if (r < fastest) {
+        fastest = r
+        fastestBit = k
+      }
+    }
+  }
+  if (!Number.isFinite(fastest) || slowest > fastest) return none
+  return { slowest, fastest, slowestBit, fastestBit }
+}
+
+// ------------------------------------------------------------------ channel analysis
+
+/** The usual UART rates, baud. */
+export const STANDARD_BAUD_RATES = [
+  1200, 2400, 4800, 9600, 14400, 19200, 28800, 38400, 57600, 76800, 115200, 230400, 250000, 460800, 500000, 921600, 1000000,
+  1500000, 2000000, 3000000,
+] as const
+
+/** Highest baud the max-baud search reports: the schema's own limit. */
+export const MAX_BAUD_CAP = 100e6
+
+export interface StandardRateRow {
+  baud: number
+  marginUi: number
+  pass: boolean
+  /** the receiver's generator divisor at this rate (else the transmitter's), null without a generator */
+  divisor: number | null
+  /** that generator's quantisation error, signed fraction */
+  error: number | null
+  generators: { tx: BaudGeneratorResult | null; rx: BaudGeneratorResult | null }
+}
+
+export interface BerEstimate {
+  berTarget: number
+  /** Q(berTarget) = Phi^-1(1 - BER) */
+  q: number
+  /** random jitter of one received edge, rms seconds */
+  rjRms: number
+  /** deterministic (bounded) jitter, peak to peak seconds (twice the peak) */
+  djPeakToPeak: number
+  /** dual-Dirac total jitter at berTarget, seconds */
+  totalJitter: number
+  totalJitterUi: number
+  /** rms spread of an edge against the sync edge (both jitter), seconds */
+  edgeSigma: number
+  /** per sampled bit: probability that random jitter carries an edge past a worst-case margin */
+  bits: { index: number; label: string; errorProbability: number }[]
+  /** the worst bit's error probability */
+  worstBitErrorProbability: number
+  /** probability that a frame has at least one bit error */
+  frameErrorProbability: number
+  meetsTarget: boolean
+}
+
+export interface UartChannelResult {
+  channelId: string
+  baud: number
+  /** nominal bit time 1 / baud, seconds */
+  bitTime: number
+  frame: { dataBits: number; parity: Parity; stopBits: number; backToBack: boolean; frameBits: number }
+  sampler: SamplerModel
+  clocks: { tx: RateErrorBounds; rx: RateErrorBounds }
+  /** the distortion the margins use (logical directions) */
+  distortion: Distortion
+  requiredMarginUi: number
+  bits: UartBitResult[]
+  worstMarginUi: number
+  worstBit: number
+  verdict: 'pass' | 'marginal' | 'fail'
+  maxBaud: number | null
+  maxBaudCap: number
+  maxBaudCapped: boolean
+  maxBaudLimitedBy: MaxBaudResult['limitedBy']
+  maxBaudNote: string
+  clockTolerance: ClockTolerance
+  rateSweep: { baud: number; marginUi: number }[]
+  standardRates: StandardRateRow[]
+  berEstimate: BerEstimate
+  warnings: Warning[]
+}
+
+export interface UartChannelInput {
+  channelId: string
+  settings: Pick<UartSettings, 'baud' | 'dataBits' | 'parity' | 'stopBits' | 'backToBack' | 'requiredMarginUi' | 'berTarget'>
+  tx: TransmitterEnd
+  rx: ReceiverEnd
+  /** chain distortion at the receiving pin, physical directions */
+  chain: { pwd: { min: number; max: number }; jitterPeak: number; jitterRms: number }
+  /** the receiver inverts (logical edges are the opposite physical ones) */
+  receiverInvert: boolean
+  /** the channel cannot work at all (inverted polarity, unreachable threshold, unsaturated output) */
+  functionalFailure?: boolean
+  /** path of the settings in the link, for errors: ['uart'] */
+  path?: (string | number)[]
+  /** the rx / tx keys of this direction in the link, for error paths */
+  rxKey?: 'rx' | 'tx'
+  txKey?: 'rx' | 'tx'
+}
+
+const TX_DEFAULT_OVERSAMPLING = 16
+
+/** Rate error bounds of both ends at `baud`. */
+function clocksAt(input: UartChannelInput, baud: number): { tx: RateErrorBounds; rx: RateErrorBounds } {
+  return {
+    tx: rateErrorBounds(input.tx, baud, input.tx.oversampling ?? TX_DEFAULT_OVERSAMPLING),
+    rx: rateErrorBounds(input.rx, baud, input.rx.oversampling),
+  }
+}
+
+/** Full UART analysis of one direction (timing-model.md section 2). */
+export function analyzeUartChannel(input: UartChannelInput): UartChannelResult {
+  const set = input.settings
+  const path = input.path ?? ['uart']
+  const layout = frameLayout(set.dataBits, set.parity, set.stopBits, set.backToBack)
+  const sampler = samplerModel(input.rx, [...path, input.rxKey ?? 'rx'])
+  const pwd = input.receiverInvert ? { min: -input.chain.pwd.max, max: -input.chain.pwd.min } : { ...input.chain.pwd }
+  const distortion: Distortion = { pwd, jitterPeak: input.chain.jitterPeak, jitterRms: input.chain.jitterRms }
+  const clocks = clocksAt(input, set.baud)
+  const errors: ClockErrors = { tx: clocks.tx, rx: clocks.rx }
+  const T = 1 / set.baud
+  const warnings: Warning[] = []
+
+  const bits = bitMargins(layout, sampler, distortion, errors, set.baud)
+  let worstBit = 0
+  for (const b of bits) if (b.marginUi < bits[worstBit]!.marginUi) worstBit = b.index
+  const worstUi = bits[worstBit]!.marginUi
+  const req = set.requiredMarginUi
+  let verdict: UartChannelResult['verdict'] = worstUi >= req ? 'pass' : worstUi >= 0 ? 'marginal' : 'fail'
+  if (input.functionalFailure) verdict = 'fail'
+
+  for (const [end, b] of [
+    ['transmitter', clocks.tx],
+    ['receiver', clocks.rx],
+  ] as const)
+    if (b.generator && Math.abs(b.generator.error) > 0.01)
+      warnings.push({
+        code: 'generator-error',
+        channel: input.channelId,
+        message: `The ${end}'s baud generator gives ${b.generator.actualBaud.toFixed(1)} baud for ${set.baud} (divisor ${b.generator.divisor}, error ${(b.generator.error * 100).toFixed(2)} %).`,
+      })
+
+  // Max-baud search cap: the schema's limit, and what each generator can reach with divisor 1.
+  let cap = MAX_BAUD_CAP
+  if (input.rx.clockHz !== undefined) cap = Math.min(cap, input.rx.clockHz / input.rx.oversampling)
+  if (input.tx.clockHz !== undefined) cap = Math.min(cap, input.tx.clockHz / (input.tx.oversampling ?? TX_DEFAULT_OVERSAMPLING))
+  const mb = maxBaud(layout, sampler, distortion, errors, req, cap)
+  if (mb.capped) warnings.push({ code: 'rate-cap', channel: input.channelId, message: mb.note })
+  if (mb.maxBaud === null) warnings.push({ code: 'no-pass', channel: input.channelId, message: mb.note })
+
+  const tolerance = clockTolerance(layout, sampler, distortion, set.baud, req)
+
+  // Rate sweep for the plot: log-spaced around the configured and the maximum rate.
+  const top = Math.min(cap, Math.max(set.baud, mb.maxBaud ?? set.baud) * 4)
+  const bottom = Math.max(1, Math.min(set.baud, mb.maxBaud ?? set.baud) / 10)
+  const points = 64
+  const rates = new Set<number>([set.baud])
+  if (mb.maxBaud !== null) rates.add(mb.maxBaud)
+  for (let i = 0; i < points; i++) rates.add(bottom * (top / bottom) ** (i / (points - 1)))
+  const table = caseTable(layout, sampler, distortion, errors)
+  const rateSweep = [...rates]
+    .filter((b) => b <= cap)
+    .sort((a, b) => a - b)
+    .map((baud) => ({ baud, marginUi: tableWorstUi(table, baud) }))
+
+  const standardRates: StandardRateRow[] = STANDARD_BAUD_RATES.map((baud) => {
+    const c = clocksAt(input, baud)
+    const m = c.tx.generator || c.rx.generator ? worstMarginUi(layout, sampler, distortion, { tx: c.tx, rx: c.rx }, baud) : tableWorstUi(table, baud)
+    const gen = c.rx.generator ?? c.tx.generator
+    return {
+      baud,
+      marginUi: m,
+      pass: m >= req && !input.functionalFailure,
+      divisor: gen ? gen.divisor : null,
+      error: gen ? gen.error : null,
+      generators: { tx: c.tx.generator, rx: c.rx.generator },
+    }
+  })
+
+  const berEstimate = estimateBer(bits, distortion, set.berTarget, T)
+
+  return {
+    channelId: input.channelId,
+    baud: set.baud,
+    bitTime: T,
+    frame: { dataBits: set.dataBits, parity: set.parity, stopBits: set.stopBits, backToBack: set.backToBack, frameBits: layout.frameBits },
+    sampler,
+    clocks,
+    distortion,
+    requiredMarginUi: req,
+    bits,
+    worstMarginUi: worstUi,
+    worstBit,
+    verdict,
+    maxBaud: mb.maxBaud,
+    maxBaudCap: mb.cap,
+    maxBaudCapped: mb.capped,
+    maxBaudLimitedBy: mb.limitedBy,
+    maxBaudNote: mb.note,
+    clockTolerance: tolerance,
+    rateSweep,
+    standardRates,
+    berEstimate,
+    warnings,
+  }
+}
+
+/**
+ * Statistical view: random jitter (rms, root-sum-square over stages) on each edge and
+ * on the sync edge, so an edge moves against the sync edge with sigma sqrt(2) RJ. The
+ * probability that it crosses a worst-case margin m (peak jitter already spent there)
+ * is the Gaussian tail Q(m / sigma); the dual-Dirac total jitter at the BER target is
+ * TJ = DJ + 2 Q(BER) RJ with DJ = 2 x peak jitter.
+ */
+export function estimateBer(bits: readonly UartBitResult[], d: Distortion, berTarget: number, T: number): BerEstimate {
+  const sigma = Math.SQRT2 * d.jitterRms
+  const tail = (m: number) => (sigma > 0 ? gaussianTail(m / sigma) : m < 0 ? 1 : 0)
+  const rows = bits.map((b) => {
+    const p = Math.min(1, tail(b.earlyMargin) + (b.lateMargin === null ? 0 : tail(b.lateMargin)))
+    return { index: b.index, label: b.label, errorProbability: p }
+  })
+  let logOk = 0
+  let worst = 0
+  for (const r of rows) {
+    worst = Math.max(worst, r.errorProbability)
+    logOk += r.errorProbability >= 1 ? -Infinity : Math.log1p(-r.errorProbability)
+  }
+  const frame = logOk === -Infinity ? 1 : logOk === 0 ? 0 : -Math.expm1(logOk)
+  const q = qFromBer(berTarget)
+  const tj = totalJitter(2 * d.jitterPeak, d.jitterRms, berTarget)
+  return {
+    berTarget,
+    q,
+    rjRms: d.jitterRms,
+    djPeakToPeak: 2 * d.jitterPeak,
+    totalJitter: tj,
+    totalJitterUi: tj / T,
+    edgeSigma: sigma,
+    bits: rows,
+    worstBitErrorProbability: worst,
+    frameErrorProbability: frame,
+    meetsTarget: worst <= berTarget,
+  }
+}
