@@ -1,0 +1,189 @@
+import { describe, expect, it } from 'vitest'
+import { LinkSpec, type Link, type LinkInput } from '../../../../shared/schemas/link'
+import { analyzeLink } from '../../../../server/timing/analyze'
+import { seriesValues } from '../../../../server/timing/eseries'
+import { sweepPullup } from '../../../../server/timing/sweep'
+
+const us = 1e-6
+const mA = 1e-3
+
+type StageIn = LinkInput['channels'][number]['stages'][number]
+
+/** A generic 20 % phototransistor coupler, collector pull-up (invented values). */
+const coupler = (over: Record<string, unknown> = {}): StageIn =>
+  ({
+    kind: 'phototransistor',
+    name: 'generic 20 % phototransistor coupler',
+    wiring: 'collector',
+    ledOnWhen: 'high',
+    driveVoltage: 5,
+    vf: 1.5, // 3.5 V across the LED resistor
+    rLed: 430,
+    ctrMin: 0.2,
+    vcc: 5,
+    rl: 4700,
+    vceSat: 0.1,
+    loadCap: 15e-12,
+    ledCurrentMax: 0.05,
+    collectorCurrentMax: 0.05,
+    powerMax: 0.2,
+    characterization: [
+      { rl: 1000, tplh: 6 * us, tphl: 2 * us, tr: 4 * us, tf: 1.5 * us },
+      { rl: 4700, tplh: 22 * us, tphl: 3 * us, tr: 15 * us, tf: 2 * us },
+      { rl: 10000, tplh: 45 * us, tphl: 4 * us, tr: 30 * us, tf: 2.5 * us },
+    ],
+    ...over,
+  }) as StageIn
+
+function uartLink(stage: StageIn, baud = 38400): Link {
+  return LinkSpec.parse({
+    schemaVersion: 1,
+    name: 'isolated telemetry',
+    protocol: 'uart',
+    channels: [
+      {
+        id: 'tel',
+        role: 'uart',
+        stages: [stage],
+        // the coupler inverts: the receiver inverts back
+        receiver: { vdd: 5, vih: 3.5, vil: 1.5, invert: true },
+      },
+    ],
+    uart: {
+      baud,
+      dataBits: 8,
+      parity: 'none',
+      stopBits: 1,
+      requiredMarginUi: 0.1,
+      tx: { errorPpm: 5000 },
+      rx: { errorPpm: 5000, oversampling: 16, sampleTicks: [7, 8, 9], vote: 'majority' },
+    },
+  } satisfies LinkInput)
+}
+
+describe('pull-up sweep arithmetic (common practice)', () => {
+  const r = sweepPullup(uartLink(coupler()), 'tel', 0, { series: 'E24', rlMin: 1000, rlMax: 10000, overdrive: 1, targetBaud: 9600 })
+  const row = r.rows.find((x) => x.rl === 1200)!
+
+  it('5 V less VCE(sat) across 1.2 kOhm is about 4.1 mA', () => {
+    // common practice (issue 3)
+    expect(row.ic / mA).toBeCloseTo(4.1, 1)
+  })
+  it('at 20 % CTR that needs about 20 mA of LED current', () => {
+    // common practice (issue 3): 4.08 mA / 0.2 = 20.4 mA
+    expect(row.ledCurrentRequired / mA).toBeCloseTo(20.4, 1)
+    expect(Math.abs(row.ledCurrentRequired / mA - 20)).toBeLessThan(0.5)
+  })
+  it('3.5 V across the LED resistor: the E24 value that still gives it is 160 ohm', () => {
+    // common practice (issue 3): 3.5 V / 20 mA = 175 ohm -> E24 160 ohm (180 would give only 19.4 mA)
+    expect(row.rLed).toBe(160)
+    expect(row.ledCurrent! / mA).toBeCloseTo(3.5 / 160 / mA, 9)
+    expect(row.ledCurrent!).toBeGreaterThanOrEqual(row.ledCurrentRequired)
+    expect(row.overdrive).toBeGreaterThanOrEqual(1)
+  })
+  it('every row: the LED resistor is the largest standard value still delivering the required current', () => {
+    const e24 = seriesValues('E24', 1, 1e6)
+    for (const x of r.rows) {
+      expect(x.ledCurrent!).toBeGreaterThanOrEqual(x.ledCurrentRequired * (1 - 1e-12))
+      const next = e24[e24.indexOf(x.rLed!) + 1]!
+      expect(3.5 / next).toBeLessThan(x.ledCurrentRequired)
+    }
+    expect(r.rows.map((x) => x.rl)).toEqual(seriesValues('E24', 1000, 10000))
+  })
+  it('overdrive scales the LED current needed', () => {
+    const r2 = sweepPullup(uartLink(coupler()), 'tel', 0, { series: 'E24', rlMin: 1200, rlMax: 1200, overdrive: 2, targetBaud: 9600 })
+    expect(r2.rows[0]!.ledCurrentRequired).toBeCloseTo(2 * row.ledCurrentRequired, 15)
+  })
+  it('derating is applied: CTR 20 % x 0.8 x 0.5 needs 2.5 times the current', () => {
+    const s = coupler({ ctrDerating: { temperature: 0.8, endOfLife: 0.5 } })
+    const r3 = sweepPullup(uartLink(s), 'tel', 0, { series: 'E24', rlMin: 1200, rlMax: 1200, overdrive: 1, targetBaud: 9600 })
+    expect(r3.rows[0]!.ledCurrentRequired).toBeCloseTo(2.5 * row.ledCurrentRequired, 15)
+  })
+})
+
+describe('pull-up sweep against the link analysis', () => {
+  const link = uartLink(coupler())
+
+  it('the 4.7 kOhm pull-up misses 19200 baud; a smaller one meets it and is recommended', () => {
+    const r = sweepPullup(link, 'tel', 0, { series: 'E12', rlMin: 470, rlMax: 10000, overdrive: 1.2, targetBaud: 19200 })
+    expect(r.targetBaud).toBe(19200)
+    const at47 = r.rows.find((x) => x.rl === 4700)!
+    expect(at47.meetsTarget).toBe(false)
+    expect(at47.feasible).toBe(false)
+    expect(at47.reasons.join(' ')).toMatch(/below the required/)
+    expect(r.recommended).not.toBeNull()
+    const rec = r.rows[r.recommended!]!
+    expect(rec.feasible).toBe(true)
+    expect(rec.rl).toBeLessThan(4700)
+    // least LED current among the feasible rows
+    for (const x of r.rows.filter((y) => y.feasible)) expect(x.ledCurrent!).toBeGreaterThanOrEqual(rec.ledCurrent! * (1 - 1e-12))
+    // the faster alternatives are feasible and faster
+    for (const i of r.alternatives) {
+      expect(r.rows[i]!.feasible).toBe(true)
+      expect(r.rows[i]!.maxBaud!).toBeGreaterThan(rec.maxBaud!)
+      expect(r.rows[i]!.fasterAlternative).toBe(true)
+    }
+    expect(r.rows.filter((x) => x.fasterAlternative).length).toBe(r.alternatives.length)
+  })
+
+  it('each row equals a direct analysis of the link with that pull-up and LED resistor', () => {
+    const r = sweepPullup(link, 'tel', 0, { series: 'E12', rlMin: 1000, rlMax: 3300, overdrive: 1.2 })
+    for (const x of r.rows) {
+      const changed = uartLink(coupler({ rl: x.rl, rLed: x.rLed }))
+      const a = analyzeLink(changed)
+      expect(x.marginUi).toBeCloseTo(a.uart!.worstMarginUi, 12)
+      expect(x.maxBaud).toBe(a.uart!.maxBaud)
+      expect(x.tplh).toBeCloseTo(a.channels[0]!.stages[0]!.tplh.typ, 15)
+    }
+    // margin falls as the pull-up grows (slower passive edge)
+    const m = r.rows.map((x) => x.marginUi!)
+    for (let i = 1; i < m.length; i++) expect(m[i]!).toBeLessThanOrEqual(m[i - 1]! + 1e-12)
+  })
+
+  it('the target defaults to the link baud; at 38400 this coupler needs more LED current than its rating allows', () => {
+    const r = sweepPullup(link, 'tel', 0, { series: 'E12', rlMin: 470, rlMax: 10000, overdrive: 1.2 })
+    expect(r.targetBaud).toBe(38400)
+    const fast = r.rows.filter((x) => x.meetsTarget)
+    expect(fast.length).toBeGreaterThan(0)
+    for (const x of fast) {
+      expect(x.withinRatings).toBe(false)
+      expect(x.reasons.join(' ')).toMatch(/LED current .* exceeds its absolute maximum/)
+    }
+    expect(r.recommended).toBeNull()
+  })
+
+  it('a driving-pin limit makes the small pull-ups infeasible, with the reason', () => {
+    const r = sweepPullup(uartLink(coupler({ driverCurrentMax: 10 * mA })), 'tel', 0, { series: 'E12', rlMin: 1000, rlMax: 10000, overdrive: 1 })
+    const small = r.rows.find((x) => x.rl === 1000)! // needs 24.5 mA
+    expect(small.withinRatings).toBe(false)
+    expect(small.feasible).toBe(false)
+    expect(small.reasons.join(' ')).toMatch(/Driving pin current/)
+    const big = r.rows.find((x) => x.rl === 10000)! // needs 2.45 mA
+    expect(big.withinRatings).toBe(true)
+  })
+
+  it('a drive that cannot light the LED gives infeasible rows without margins', () => {
+    const r = sweepPullup(uartLink(coupler({ driveVoltage: 1.2, vf: 1.5 })), 'tel', 0, { series: 'E12', rlMin: 1000, rlMax: 2200 })
+    for (const x of r.rows) {
+      expect(x.rLed).toBeNull()
+      expect(x.marginUi).toBeNull()
+      expect(x.feasible).toBe(false)
+      expect(x.reasons[0]).toMatch(/forward voltage/)
+    }
+    expect(r.recommended).toBeNull()
+  })
+
+  it('an E96 sweep over three decades has 288 rows and no NaN or infinity', () => {
+    const r = sweepPullup(link, 'tel', 0, { series: 'E96', rlMin: 100, rlMax: 97600, overdrive: 1.5 })
+    expect(r.rows.length).toBe(288)
+    const bad = JSON.stringify(r, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? 'BAD' : v))
+    expect(bad).not.toContain('BAD')
+  })
+
+  it('rejects a bad channel, stage or range with the field named', () => {
+    expect(() => sweepPullup(link, 'nope', 0, { series: 'E12', rlMin: 1000, rlMax: 2000 })).toThrow(/no channel/)
+    expect(() => sweepPullup(link, 'tel', 3, { series: 'E12', rlMin: 1000, rlMax: 2000 })).toThrow(/not a phototransistor/)
+    expect(() => sweepPullup(link, 'tel', 0, { series: 'E12', rlMin: 2000, rlMax: 1000 })).toThrow(/rlMin/)
+    expect(() => sweepPullup(link, 'tel', 0, { series: 'E12', rlMin: 1000, rlMax: 2000, overdrive: 0 })).toThrow(/overdrive/)
+  })
+})
