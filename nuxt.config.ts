@@ -1,10 +1,39 @@
 // Bitslack: Nuxt 4 app. Nothing here fetches from the network at build or run time:
 // fonts come from @fontsource packages, devtools and telemetry are off.
+const dev = process.env.NODE_ENV !== 'production' && !process.argv.includes('build')
+
 export default defineNuxtConfig({
   compatibilityDate: '2025-07-15',
   devtools: { enabled: false },
   telemetry: false,
-  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils'],
+  modules: ['@pinia/nuxt', '@nuxtjs/tailwindcss', 'nuxt-auth-utils', 'nuxt-security'],
+  // Security headers and a content security policy the app works under (nonce-based
+  // scripts). Rate limiting of sign-in, body validation and CSRF are the app's own
+  // (server/middleware), so the module's generic versions are off.
+  security: {
+    nonce: true,
+    headers: {
+      contentSecurityPolicy: {
+        'default-src': ["'self'"],
+        'script-src': ["'self'", "'strict-dynamic'", "'nonce-{{nonce}}'"],
+        'style-src': ["'self'", "'unsafe-inline'"],
+        'img-src': ["'self'", 'data:', 'blob:'],
+        'font-src': ["'self'", 'data:'], // Vite inlines the smallest font subsets
+        'connect-src': dev ? ["'self'", 'ws:'] : ["'self'"],
+        'object-src': ["'none'"],
+        'base-uri': ["'none'"],
+        'frame-ancestors': ["'none'"],
+        'form-action': ["'self'"],
+        'upgrade-insecure-requests': false,
+      },
+      crossOriginEmbedderPolicy: dev ? 'unsafe-none' : 'require-corp',
+      strictTransportSecurity: dev ? false : { maxAge: 15552000, includeSubdomains: true },
+    },
+    rateLimiter: false,
+    xssValidator: false,
+    csrf: false,
+    requestSizeLimiter: { maxRequestSizeInBytes: 2_000_000, maxUploadFileRequestInBytes: 64_000_000, throwError: true },
+  },
   css: ['~/assets/css/main.css'],
   tailwindcss: { cssPath: false, viewer: false },
   app: {

@@ -1,0 +1,25 @@
+/**
+ * Cross-site request protection for every mutating API call: the browser's own
+ * Sec-Fetch-Site and Origin headers must say the request comes from this app's origin
+ * (OWASP CSRF cheat sheet, "verifying origin with standard headers"). Requests without
+ * those headers (server-to-server clients, tests) carry no browser cookies of a victim.
+ * The session cookie is SameSite=Lax as a second line.
+ */
+const SAFE = new Set(['GET', 'HEAD', 'OPTIONS'])
+
+export default defineEventHandler((event) => {
+  if (SAFE.has(event.method) || !event.path.startsWith('/api/')) return
+  const refuse = () => {
+    throw createError({ statusCode: 403, statusMessage: 'Cross-site request refused' })
+  }
+  if (getHeader(event, 'sec-fetch-site') === 'cross-site') refuse()
+  const origin = getHeader(event, 'origin')
+  if (origin === undefined) return
+  let originHost: string
+  try {
+    originHost = new URL(origin).host
+  } catch {
+    return refuse()
+  }
+  if (originHost !== getRequestHost(event, { xForwardedHost: true })) refuse()
+})
