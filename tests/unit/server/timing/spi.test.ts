@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
 import { LinkSpec, type Link, type LinkInput } from '../../../../shared/schemas/link'
+import { analyzeLink } from '../../../../server/timing/analyze'
 import { analyzeSpi, SPI_CHECK_IDS, type SpiResult } from '../../../../server/timing/spi'
 import type { ChainResult } from '../../../../server/timing/types'
 
@@ -282,5 +283,43 @@ describe('analyzeSpi: candidates and the maximum', () => {
       ),
       { numRuns: 300 },
     )
+  })
+})
+
+describe('analyzeSpi through analyzeLink (real chains)', () => {
+  const iso = (tpd: number) => ({
+    kind: 'digital' as const,
+    name: 'generic digital isolator channel',
+    inverting: false,
+    tplh: { min: tpd, typ: tpd, max: tpd },
+    tphl: { min: tpd, typ: tpd, max: tpd },
+  })
+  const link = (tpd: number, spi: Record<string, unknown> = {}): LinkInput => ({
+    schemaVersion: 1,
+    name: 'isolated SPI',
+    protocol: 'spi',
+    channels: (['sclk', 'mosi', 'miso', 'cs'] as const).map((id) => ({ id, role: id, stages: [iso(tpd)], receiver })),
+    spi: { sclkHz: 10 * MHz, cpol: 0, cpha: 0, controller: {}, peripheral: { clockToOut: { min: 0, max: 0 } }, ...spi } as NonNullable<LinkInput['spi']>,
+  })
+
+  it('16 ns isolators: 15.625 MHz (TI prints 15.6 MHz)', () => {
+    // references.md 2.2, TI E2E FAQ: fmax = 1/(4 tpd)
+    const r = analyzeLink(link(16 * ns)).spi!
+    expect(r.maxSclkHz! / MHz).toBeCloseTo(15.625, 6)
+    expect(Math.abs(r.maxSclkHz! / MHz - 15.6)).toBeLessThanOrEqual(0.05)
+    expect(r.checks.map((c) => c.id)).toEqual([...SPI_CHECK_IDS])
+    expect(r.pass).toBe(true) // 10 MHz < 15.625 MHz
+  })
+
+  it('full loop 16 + 10 + 16 + 5 ns: 10.638 MHz, and the inverted MISO is flagged', () => {
+    // references.md 2.1/2.2: TI ADS8910B loop formula, [D] 10.638 MHz
+    const input = link(16 * ns, { controller: { misoSetup: 5 * ns }, peripheral: { clockToOut: { min: 10 * ns, max: 10 * ns } } })
+    const a = analyzeLink(input)
+    expect(a.spi!.maxSclkHz! / MHz).toBeCloseTo(10.638, 3)
+    expect(a.spi!.limitingCheck).toBe('miso-setup')
+    const inv = structuredClone(input)
+    inv.channels[2]!.stages[0] = { ...iso(16 * ns), inverting: true }
+    const b = analyzeLink(inv)
+    expect(b.spi!.warnings.some((w) => w.code === 'inverted-polarity' && w.channel === 'miso')).toBe(true)
   })
 })
