@@ -131,26 +131,27 @@ export interface Rng {
 }
 
 export function createRng(seed: number): Rng {
-  let s = seed >>> 0
+  // int32 arithmetic throughout (| 0) keeps every value a small integer for the JIT
+  let s = seed | 0
   const split = () => {
-    s = (s + 0x9e3779b9) >>> 0
+    s = (s + 0x9e3779b9) | 0
     let z = s
-    z = Math.imul(z ^ (z >>> 16), 0x85ebca6b) >>> 0
-    z = Math.imul(z ^ (z >>> 13), 0xc2b2ae35) >>> 0
-    return (z ^ (z >>> 16)) >>> 0
+    z = Math.imul(z ^ (z >>> 16), 0x85ebca6b)
+    z = Math.imul(z ^ (z >>> 13), 0xc2b2ae35)
+    return (z ^ (z >>> 16)) | 0
   }
   let a = split()
   let b = split()
   let c = split()
   let d = split()
   const next = () => {
-    const t = (((a + b) >>> 0) + d) >>> 0
-    d = (d + 1) >>> 0
+    const t = (((a + b) | 0) + d) | 0
+    d = (d + 1) | 0
     a = b ^ (b >>> 9)
-    b = (c + (c << 3)) >>> 0
+    b = (c + (c << 3)) | 0
     c = (c << 21) | (c >>> 11)
-    c = (c + t) >>> 0
-    return t / 4294967296
+    c = (c + t) | 0
+    return (t >>> 0) / 4294967296
   }
   for (let i = 0; i < 12; i++) next()
   let spare = 0
