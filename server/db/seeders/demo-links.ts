@@ -19,7 +19,7 @@ export const PTC20: StageInput = {
   rLed: 430,
   ctrMin: 0.2,
   ctrTestCurrent: 0.005,
-  ctrDerating: { temperature: 0.85, endOfLife: 0.8 },
+  ctrDerating: { temperature: 0.9, endOfLife: 0.85 },
   vcc: 3.3,
   rl: 4700,
   vceSat: 0.4,
@@ -30,7 +30,7 @@ export const PTC20: StageInput = {
   driverCurrentMax: 0.025,
   partSkew: 2e-6,
   characterization: [
-    { rl: 1000, tplh: 6e-6, tphl: 2.0e-6, tr: 4e-6, tf: 1.5e-6, loadCap: 15e-12 },
+    { rl: 1000, tplh: 5e-6, tphl: 2.0e-6, tr: 3.5e-6, tf: 1.5e-6, loadCap: 15e-12 },
     { rl: 4700, tplh: 22e-6, tphl: 3.0e-6, tr: 15e-6, tf: 2.0e-6, loadCap: 15e-12 },
     { rl: 10000, tplh: 45e-6, tphl: 4.0e-6, tr: 30e-6, tf: 2.5e-6, loadCap: 15e-12 },
   ],
