@@ -20,6 +20,8 @@ export interface RcEdgeCase {
   riseLevels: Record<string, number>
   /** crossing levels to time, volts, by name: falling edge from vHigh to 0 (node outf) */
   fallLevels: Record<string, number>
+  /** maximum time step as a fraction of tau: tau / stepsPerTau (default 2000) */
+  stepsPerTau?: number
 }
 
 /** Measured crossing times after the switch opens, seconds, by level name. */
@@ -49,6 +51,7 @@ const name = (s: string) => s.toLowerCase().replace(/[^a-z0-9]/g, '')
 /** The netlist of one case (both edges, one transient). */
 export function rcEdgeNetlist(k: RcEdgeCase): string {
   const tau = k.r * k.c
+  const step = tau / (k.stepsPerTau ?? 2000)
   const lines = [
     `* RC edge R=${k.r} C=${k.c}`,
     `Vcc vcc 0 ${k.vHigh}`,
@@ -56,8 +59,8 @@ export function rcEdgeNetlist(k: RcEdgeCase): string {
     `C1 outr 0 ${k.c} IC=${k.vLow}`,
     `R2 outf 0 ${k.r}`,
     `C2 outf 0 ${k.c} IC=${k.vHigh}`,
-    // run to 8 tau (0.03 % of the swing left) with the step held below tau/2000
-    `.tran ${tau / 2000} ${8 * tau} 0 ${tau / 2000} uic`,
+    // run to 8 tau (0.03 % of the swing left) with the step held below tau / stepsPerTau
+    `.tran ${step} ${8 * tau} 0 ${step} uic`,
   ]
   for (const [n, v] of Object.entries(k.riseLevels)) lines.push(`.meas tran r_${name(n)} WHEN v(outr)=${v} RISE=1`)
   for (const [n, v] of Object.entries(k.fallLevels)) lines.push(`.meas tran f_${name(n)} WHEN v(outf)=${v} FALL=1`)

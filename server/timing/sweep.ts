@@ -7,10 +7,12 @@
  * the least LED current (longest LED life) and flags the faster alternatives.
  */
 import type { Link, PhototransistorStage } from '../../shared/schemas/link'
-import { analyzeLink } from './analyze'
+import { analyzeLink, type Verdict } from './analyze'
+import { analyzeChain } from './chain'
 import { EngineInputError } from './errors'
 import { nearestNotAbove, seriesValues, type SeriesName } from './eseries'
 import { ctrDeratingOf, phototransistorModel } from './phototransistor'
+import { frameLayout, maxBaud as maxBaudSearch, worstMarginUi, type ClockErrors, type Distortion } from './uart'
 
 export interface PullupSweepOptions {
   /** E series for both RL and the LED resistor */
@@ -54,9 +56,9 @@ export interface PullupSweepRow {
   reasons: string[]
   /** other warnings for this row (extrapolation, single-point fit ...) */
   notes: string[]
-  /** worst margin at the target baud, UI; null when not computed (the LED cannot light) */
+  /** the link's worst margin at the target baud (worst uart direction), UI; null when not computed (the LED cannot light) */
   marginUi: number | null
-  /** highest baud meeting the required margin; null when none (or not computed) */
+  /** the link's highest baud meeting the required margin (lowest over its directions); null when none (or not computed) */
   maxBaud: number | null
   /** the analysis verdict at the target baud */
   verdict: 'pass' | 'marginal' | 'fail' | null
@@ -116,6 +118,44 @@ export function sweepPullup(link: Link, channelId: string, stageIndex: number, o
   const headroom = base.driveVoltage - base.vf
   const uart = { ...link.uart, baud: targetBaud }
 
+  // One full analysis at the target baud gives everything a row does not change: the
+  // swept direction's sampler, clock error bounds and search cap, and the other
+  // direction's result. Each row then re-runs only the swept channel's chain and the
+  // closed-form margin and maximum-baud of its direction (the same functions
+  // analyzeLink uses), which keeps a 300-row sweep to milliseconds.
+  const baseAnalysis = analyzeLink({ ...link, uart })
+  const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)
+  const direction = uartIdx.indexOf(ci)
+  const byChannel = baseAnalysis.uart?.byChannel ?? []
+  const swept = byChannel[direction]
+  if (direction < 0 || !swept) throw new EngineInputError(['channelId'], `channel '${channelId}' is not a uart channel`)
+  const others = byChannel.filter((_, k) => k !== direction)
+  const layout = frameLayout(swept.frame.dataBits, swept.frame.parity, swept.frame.stopBits, swept.frame.backToBack)
+  const errors: ClockErrors = { tx: swept.clocks.tx, rx: swept.clocks.rx }
+  const receiverInvert = channel.receiver.invert ?? false
+
+  /** The link's margin, maximum baud and verdict with the swept channel's stages replaced. */
+  const evaluate = (stages: Link['channels'][number]['stages']) => {
+    const chain = analyzeChain({ ...channel, stages }, { path: ['channels', ci] })
+    const inverted = (chain.polarity === 'inverted') !== receiverInvert
+    const unsaturated = chain.stages.some((s) => s.operating && !s.operating.saturated)
+    const functional = chain.reachable && !inverted && !unsaturated
+    const pwd = receiverInvert ? { min: -chain.pwd.max, max: -chain.pwd.min } : chain.pwd
+    const d: Distortion = { pwd, jitterPeak: chain.jitterPeak, jitterRms: chain.jitterRms }
+    const own = worstMarginUi(layout, swept.sampler, d, errors, targetBaud)
+    const ownMax = maxBaudSearch(layout, swept.sampler, d, errors, requiredMarginUi, swept.maxBaudCap).maxBaud
+    let margin = own
+    let max: number | null = ownMax
+    const verdicts: Verdict[] = [!functional ? 'fail' : own >= requiredMarginUi ? 'pass' : own >= 0 ? 'marginal' : 'fail']
+    for (const o of others) {
+      margin = Math.min(margin, o.worstMarginUi)
+      max = max === null || o.maxBaud === null ? null : Math.min(max, o.maxBaud)
+      verdicts.push(o.verdict)
+    }
+    const verdict: Verdict = verdicts.includes('fail') ? 'fail' : verdicts.includes('marginal') ? 'marginal' : 'pass'
+    return { marginUi: margin, maxBaud: max, verdict }
+  }
+
   const rows: PullupSweepRow[] = rls.map((rl) => {
     const ic = Math.max(0, base.vcc - vceSat) / rl
     const ledCurrentRequired = (ic * overdrive) / ctr
@@ -150,12 +190,7 @@ export function sweepPullup(link: Link, channelId: string, stageIndex: number, o
     if (ledCurrent !== null) {
       const stages = channel.stages.slice()
       stages[stageIndex] = stage
-      const channels = link.channels.slice()
-      channels[ci] = { ...channel, stages }
-      const a = analyzeLink({ ...link, channels, uart })
-      marginUi = a.uart?.worstMarginUi ?? null
-      maxBaud = a.uart?.maxBaud ?? null
-      verdict = a.verdict
+      ;({ marginUi, maxBaud, verdict } = evaluate(stages))
     }
     const meetsTarget = marginUi !== null && marginUi >= requiredMarginUi
     if (ledCurrent !== null && !meetsTarget)

@@ -152,6 +152,30 @@ describe('pull-up sweep against the link analysis', () => {
     expect(r.recommended).toBeNull()
   })
 
+  it('a two-direction link: sweeping the second direction matches the full analysis row by row', () => {
+    // the second uart channel runs the other way (its clocks swap): the sweep must keep that
+    const two = LinkSpec.parse({
+      ...link,
+      channels: [
+        { ...link.channels[0]!, id: 'fwd', stages: [coupler({ rl: 1000, rLed: 100, partSkew: 1 * us })] },
+        { ...link.channels[0]!, id: 'back' },
+      ],
+      uart: { ...link.uart!, tx: { clockHz: 16e6, oversampling: 16, fractionBits: 4, tolerancePpm: 2000 }, rx: { errorPpm: 3000, oversampling: 8, vote: 'majority' } },
+    })
+    const r = sweepPullup(two, 'back', 0, { series: 'E24', rlMin: 470, rlMax: 4700, overdrive: 1.3, targetBaud: 19200 })
+    for (const x of r.rows) {
+      const changed = structuredClone(two)
+      changed.uart!.baud = 19200
+      changed.channels[1]!.stages[0] = { ...(changed.channels[1]!.stages[0] as object), rl: x.rl, rLed: x.rLed!, ledCurrent: undefined } as never
+      const a = analyzeLink(changed)
+      expect(x.marginUi).toBeCloseTo(a.uart!.worstMarginUi, 12)
+      expect(x.verdict).toBe(a.verdict)
+      const maxes = a.uart!.byChannel.map((c) => c.maxBaud)
+      expect(x.maxBaud).toBeCloseTo(Math.min(...(maxes as number[])), 6)
+    }
+    expect(() => sweepPullup(two, 'fwd', 0, { series: 'E12', rlMin: 1000, rlMax: 2000 })).not.toThrow()
+  })
+
   it('a driving-pin limit makes the small pull-ups infeasible, with the reason', () => {
     const r = sweepPullup(uartLink(coupler({ driverCurrentMax: 10 * mA })), 'tel', 0, { series: 'E12', rlMin: 1000, rlMax: 10000, overdrive: 1 })
     const small = r.rows.find((x) => x.rl === 1000)! // needs 24.5 mA
