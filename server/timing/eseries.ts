@@ -72,17 +72,22 @@ export function seriesValues(series: SeriesName, min: number, max: number): numb
   return out
 }
 
-/** The standard values just below-or-at and just above-or-at a positive value. */
+/** The standard values just below-or-at and just above-or-at a positive value (no allocation: sweeps call it per row). */
 function bracket(value: number, series: SeriesName): { below: number; above: number } {
   if (!(value > 0) || !Number.isFinite(value)) throw new Error('series lookup: value must be a positive finite number')
-  const vals = seriesValues(series, value / 10.5, value * 10.5)
-  let below = vals[0]!
-  let above = vals[vals.length - 1]!
-  for (const v of vals) {
-    if (v <= value * (1 + SAME)) below = v
-    if (v >= value * (1 - SAME)) {
-      above = v
-      break
+  const m = seriesMantissas(series)
+  const e = Math.floor(Math.log10(value / m[0]!))
+  const hi = value * (1 + SAME)
+  const lo = value * (1 - SAME)
+  let below = 0
+  let above = Infinity
+  // the decade of the value and its neighbours cover rounding of log10 and the decade wrap
+  for (let k = e - 1; k <= e + 1; k++) {
+    const f = 10 ** Math.abs(k)
+    for (const mant of m) {
+      const v = k >= 0 ? mant * f : mant / f
+      if (v <= hi && v > below) below = v
+      if (v >= lo && v < above) above = v
     }
   }
   return { below, above }

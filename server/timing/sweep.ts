@@ -11,7 +11,8 @@ import { analyzeLink, type Verdict } from './analyze'
 import { analyzeChain } from './chain'
 import { EngineInputError } from './errors'
 import { nearestNotAbove, seriesValues, type SeriesName } from './eseries'
-import { ctrDeratingOf, phototransistorModel } from './phototransistor'
+import { ctrDeratingOf, phototransistorModel, type PhototransistorOperating } from './phototransistor'
+import type { StageEdgeModel, Warning } from './types'
 import { frameLayout, maxBaud as maxBaudSearch, worstMarginUi, type ClockErrors, type Distortion } from './uart'
 
 export interface PullupSweepOptions {
@@ -153,7 +154,7 @@ export function sweepPullup(link: Link, channelId: string, stageIndex: number, o
       verdicts.push(o.verdict)
     }
     const verdict: Verdict = verdicts.includes('fail') ? 'fail' : verdicts.includes('marginal') ? 'marginal' : 'pass'
-    return { marginUi: margin, maxBaud: max, verdict }
+    return { marginUi: margin, maxBaud: max, verdict, chain }
   }
 
   const rows: PullupSweepRow[] = rls.map((rl) => {
@@ -177,21 +178,30 @@ export function sweepPullup(link: Link, channelId: string, stageIndex: number, o
       )
       stage = { ...base, rl, rLed: undefined, ledCurrent: ledCurrentRequired }
     }
-    const m = phototransistorModel(stage)
-    for (const w of m.warnings) {
+    let marginUi: number | null = null
+    let maxBaud: number | null = null
+    let verdict: PullupSweepRow['verdict'] = null
+    let model: StageEdgeModel
+    let operating: PhototransistorOperating
+    let warnings: Warning[]
+    if (ledCurrent !== null) {
+      const stages = channel.stages.slice()
+      stages[stageIndex] = stage
+      const e = evaluate(stages)
+      ;({ marginUi, maxBaud, verdict } = e)
+      // the chain already reduced the stage: take its model and warnings
+      const c = e.chain.stages[stageIndex]!
+      model = c.model
+      operating = c.operating!
+      warnings = e.chain.warnings.filter((w) => w.stage === stageIndex)
+    } else {
+      ;({ model, operating, warnings } = phototransistorModel(stage))
+    }
+    for (const w of warnings) {
       if (w.code === 'absolute-maximum' || w.code === 'unsaturated') reasons.push(w.message)
       else notes.push(w.message)
     }
     const withinRatings = reasons.length === 0
-
-    let marginUi: number | null = null
-    let maxBaud: number | null = null
-    let verdict: PullupSweepRow['verdict'] = null
-    if (ledCurrent !== null) {
-      const stages = channel.stages.slice()
-      stages[stageIndex] = stage
-      ;({ marginUi, maxBaud, verdict } = evaluate(stages))
-    }
     const meetsTarget = marginUi !== null && marginUi >= requiredMarginUi
     if (ledCurrent !== null && !meetsTarget)
       reasons.push(
@@ -205,12 +215,12 @@ export function sweepPullup(link: Link, channelId: string, stageIndex: number, o
       ledCurrentRequired,
       rLed,
       ledCurrent,
-      overdrive: m.operating.overdrive,
-      power: m.operating.power,
-      tplh: m.model.tplh.typ,
-      tphl: m.model.tphl.typ,
-      tr: m.model.tr.typ,
-      tf: m.model.tf.typ,
+      overdrive: operating.overdrive,
+      power: operating.power,
+      tplh: model.tplh.typ,
+      tphl: model.tphl.typ,
+      tr: model.tr.typ,
+      tf: model.tf.typ,
       withinRatings,
       meetsTarget,
       feasible: withinRatings && meetsTarget,
