@@ -67,10 +67,10 @@ describe('analyzeSpi: maximum SCLK against published isolated-SPI numbers', () =
   // references.md 2.1: isolator-only bound 2*tpd < T/2, fmax = 1/(4 tpd)
   it.each([
     // [tpd, printed MHz, source]
-    [16 * ns, 15.6], // references.md 2.2, TI E2E FAQ (ISO7741 at 5 V): 15.6 MHz
-    [9 * ns, 27.75], // references.md 2.2, TI E2E FAQ (ISO6041 at 5 V): 27.75 MHz (printed slightly off)
-    [36 * ns, 6.9], // references.md 2.2, ADI EngineerZone (ADuM3441 at 3.3 V): 6.9 MHz
-    [32 * ns, 7.8], // references.md 2.2, ADI EngineerZone (ADuM1401C): 7.8 MHz
+    [16 * ns, 15.6], // references.md 2.2, TI E2E FAQ "maximum SPI speed supported by a digital isolator", 16 ns example: 15.6 MHz
+    [9 * ns, 27.75], // references.md 2.2, TI E2E FAQ, 9 ns example: 27.75 MHz (printed slightly off)
+    [36 * ns, 6.9], // references.md 2.2, ADI EngineerZone answer, 36 ns at 3.3 V: 6.9 MHz
+    [32 * ns, 7.8], // references.md 2.2, ADI EngineerZone answer, 32 ns: 7.8 MHz
   ])('tpd %s s gives the printed %s MHz', (tpd, printed) => {
     const r = analyzeSpi(spiLink({}), isoChains(tpd))
     expect(r.maxSclkHz! / MHz).toBeCloseTo(1 / (4 * tpd) / MHz, 9) // exact formula
@@ -85,7 +85,7 @@ describe('analyzeSpi: maximum SCLK against published isolated-SPI numbers', () =
   })
 
   it('full loop: forward 16 ns, clock-to-out 10 ns, return 16 ns, setup 5 ns gives 10.638 MHz', () => {
-    // references.md 2.1, TI ADS8910B datasheet SBAS707B loop formula fmax = 1/(2 td_total); 2.2 [D] 10.638 MHz
+    // references.md 2.1, TI datasheet SBAS707B loop formula fmax = 1/(2 td_total); 2.2 [D] 10.638 MHz
     const link = spiLink({ controller: { misoSetup: 5 * ns }, peripheral: { clockToOut: { min: 10 * ns, max: 10 * ns } } })
     const r = analyzeSpi(link, isoChains(16 * ns))
     expect(r.maxSclkHz! / MHz).toBeCloseTo(1 / (2 * 47 * ns) / MHz, 9)
@@ -312,7 +312,7 @@ describe('analyzeSpi through analyzeLink (real chains)', () => {
   })
 
   it('full loop 16 + 10 + 16 + 5 ns: 10.638 MHz, and the inverted MISO is flagged', () => {
-    // references.md 2.1/2.2: TI ADS8910B loop formula, [D] 10.638 MHz
+    // references.md 2.1/2.2: TI datasheet SBAS707B loop formula, [D] 10.638 MHz
     const input = link(16 * ns, { controller: { misoSetup: 5 * ns }, peripheral: { clockToOut: { min: 10 * ns, max: 10 * ns } } })
     const a = analyzeLink(input)
     expect(a.spi!.maxSclkHz! / MHz).toBeCloseTo(10.638, 3)
