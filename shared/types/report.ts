@@ -1,0 +1,140 @@
+/**
+ * Margin report DTOs (issue 6). A report is a series of revisions r1, r2 ... of one link;
+ * each revision freezes the link's input and the engine's full result and never changes.
+ * Only its review state moves: draft -> submitted -> signed off | returned. Dates are
+ * ISO 8601 strings; every number inside `result` is the engine's own (SI units).
+ */
+import type { LinkAnalysis } from '../../server/timing/analyze'
+import type { PullupSweepResult } from '../../server/timing/sweep'
+import type { Link } from '../schemas/link'
+import type { ReportState, CommentTarget } from '../schemas/report'
+import type { PersonRef } from './workspace'
+
+export type { ReportState, CommentTarget }
+
+/** The pull-up sweep stored with a revision, and the row the link uses now. */
+export interface PullupChoice {
+  sweep: PullupSweepResult
+  /** index in sweep.rows of the row whose RL is the stage's RL, null when the RL is not in the series */
+  chosenRow: number | null
+  /** the stage's pull-up and LED resistor as frozen, ohms */
+  rl: number
+  rLed: number | null
+}
+
+/** A revision as lists show it. */
+export interface ReportSummaryDto {
+  id: number
+  /** 1 for r1 */
+  number: number
+  /** "r1" */
+  label: string
+  linkId: number
+  linkName: string
+  projectId: number
+  projectName: string
+  teamId: number
+  protocol: 'uart' | 'spi'
+  state: ReportState
+  verdict: 'pass' | 'marginal' | 'fail'
+  engineVersion: string
+  author: PersonRef | null
+  reviewer: PersonRef | null
+  createdAt: string
+  submittedAt: string | null
+  decidedAt: string | null
+}
+
+/** One step of the review: who did what, when. */
+export interface ReportEventDto {
+  id: number
+  action: 'freeze' | 'submit' | 'sign-off' | 'return'
+  actor: PersonRef | null
+  /** the reviewer named by a submit */
+  reviewer: PersonRef | null
+  note: string | null
+  at: string
+}
+
+export interface ReportCommentDto {
+  id: number
+  target: CommentTarget
+  body: string
+  author: PersonRef | null
+  createdAt: string
+}
+
+/** What the caller may do with this revision now (the server enforces the same rules). */
+export interface ReportAbilities {
+  submit: boolean
+  comment: boolean
+  decide: boolean
+  /** freeze a newer revision of the link */
+  freeze: boolean
+}
+
+/** A whole revision: the frozen input, the frozen result, its review. */
+export interface ReportDetailDto extends ReportSummaryDto {
+  /** the link's version the revision was frozen from */
+  linkVersion: number
+  /** the full link input (defaults filled in) */
+  input: Link
+  /** the engine's full result at freeze time */
+  result: LinkAnalysis
+  assumptions: string[]
+  pullup: PullupChoice | null
+  decidedBy: PersonRef | null
+  /** the reviewer's note with a sign-off or a return */
+  decisionNote: string | null
+  /** optimistic-locking counter of the review state */
+  version: number
+  events: ReportEventDto[]
+  comments: ReportCommentDto[]
+  /** the caller's role in the team and what it allows here */
+  role: 'admin' | 'engineer' | 'reviewer' | 'viewer'
+  can: ReportAbilities
+  /** the newest revision of the same link (to tell an old revision apart) */
+  latestNumber: number
+}
+
+/** One difference between the stored result and today's engine, by JSON path. */
+export interface ResultDifference {
+  path: string
+  stored: unknown
+  recomputed: unknown
+}
+
+export interface RecomputeDto {
+  reportId: number
+  storedEngineVersion: string
+  currentEngineVersion: string
+  /** the recomputed result equals the stored one (numbers to a relative 1e-9) */
+  same: boolean
+  /** at most 200 differences, first by path order */
+  differences: ResultDifference[]
+  differenceCount: number
+  verdict: { stored: string; recomputed: string }
+}
+
+/** A member of the team who can review (reviewer or admin), for the submit form. */
+export interface ReviewerOption {
+  id: number
+  name: string
+  role: 'admin' | 'reviewer'
+}
+
+/** One entry of the review queue: a submitted revision waiting for the caller. */
+export interface ReviewQueueItemDto extends ReportSummaryDto {
+  /** named to the caller (true) or waiting for any reviewer of the team (false) */
+  assignedToMe: boolean
+}
+
+/** Each link's latest revision, for the project page. */
+export interface LatestRevisionDto {
+  linkId: number
+  reportId: number
+  label: string
+  state: ReportState
+  verdict: 'pass' | 'marginal' | 'fail'
+  createdAt: string
+}
