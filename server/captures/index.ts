@@ -1,0 +1,10 @@
+// The capture module's public surface (server/captures/README.md).
+export { CaptureFormatError } from './errors'
+export { binaryTypeOf, isPdf, sniffText } from './sniff'
+export { parseCapture, type ParsedCapture, type ParseOptions, type CaptureFormat, type CaptureColumn, type Delimiter } from './parse'
+export { stateLevels, type StateLevels } from './levels'
+export { findEdges, defaultHysteresis, type Edge, type Polarity, type EdgeSearch } from './transitions'
+export { pairEdges, detectInversion, type EdgePair, type Pairing } from './pairing'
+export { summarise, RunningStats, type SummaryStats } from './stats'
+export { MinMaxDownsampler, type CaptureWaveform } from './downsample'
+export { analyseCapture, analyseCaptureStream, CAPTURE_METHOD_VERSION, type AnalyseOptions, type CaptureResult, type ChannelResult, type PairingResult } from './analyse'
