@@ -1,0 +1,78 @@
+/**
+ * Deployment settings read from the environment at run time (not baked in at build):
+ * where the app is reached, how mail leaves, how clients are identified. The
+ * environment kind is BITSLACK_ENV: demo and development use the local fakes; anything
+ * else (and an unset value) is production, which must configure SMTP explicitly.
+ */
+export type AppEnv = 'production' | 'demo' | 'development' | 'test'
+
+export function appEnv(): AppEnv {
+  const v = process.env.BITSLACK_ENV
+  return v === 'demo' || v === 'development' || v === 'test' ? v : 'production'
+}
+
+/** Base URL for links in e-mails (no trailing slash). */
+export function appUrl(): string {
+  return (process.env.APP_URL || 'http://localhost:3000').replace(/\/+$/, '')
+}
+
+export interface SmtpSettings {
+  host: string
+  port: number
+  user?: string
+  pass?: string
+  from: string
+  /** a local fake on loopback: plain SMTP, no STARTTLS */
+  local: boolean
+}
+
+/** SMTP settings; production requires SMTP_HOST and SMTP_FROM, demo/dev/test default to the local fake. */
+export function smtpSettings(): SmtpSettings {
+  const production = appEnv() === 'production'
+  const host = process.env.SMTP_HOST || (production ? '' : '127.0.0.1')
+  const from = process.env.SMTP_FROM || (production ? '' : 'Bitslack <no-reply@bitslack.localhost>')
+  if (!host || !from) throw new Error('SMTP_HOST and SMTP_FROM must be set in production (BITSLACK_ENV unset or production)')
+  const port = Number(process.env.SMTP_PORT || (production ? 587 : 1025))
+  if (!Number.isInteger(port) || port <= 0 || port > 65535) throw new Error(`SMTP_PORT is not a port: ${process.env.SMTP_PORT}`)
+  return {
+    host,
+    port,
+    user: process.env.SMTP_USER || undefined,
+    pass: process.env.SMTP_PASS || undefined,
+    from,
+    local: !production,
+  }
+}
+
+/** The fake's web inbox the UI links to: MAIL_INBOX_URL, else maildev's in demo and development, null otherwise. */
+export function mailInboxUrl(): string | null {
+  if (process.env.MAIL_INBOX_URL) return process.env.MAIL_INBOX_URL
+  const env = appEnv()
+  return env === 'demo' || env === 'development' ? 'http://127.0.0.1:1080' : null
+}
+
+/** Trust X-Forwarded-For for the client IP: only behind a reverse proxy that sets it (BITSLACK_TRUST_PROXY=1). */
+export function trustProxy(): boolean {
+  return process.env.BITSLACK_TRUST_PROXY === '1'
+}
+
+export interface SignInLimits {
+  /** failed attempts per address within the window */
+  perAddress: number
+  /** failed attempts per client IP within the window */
+  perIp: number
+  /** seconds */
+  windowSeconds: number
+}
+
+export function signInLimits(): SignInLimits {
+  const n = (name: string, fallback: number) => {
+    const v = Number(process.env[name])
+    return Number.isInteger(v) && v > 0 ? v : fallback
+  }
+  return {
+    perAddress: n('BITSLACK_SIGN_IN_MAX_PER_ADDRESS', 5),
+    perIp: n('BITSLACK_SIGN_IN_MAX_PER_IP', 30),
+    windowSeconds: n('BITSLACK_SIGN_IN_WINDOW_SECONDS', 15 * 60),
+  }
+}
