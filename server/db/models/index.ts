@@ -3,20 +3,50 @@
  * Sequelize instance (server/utils/db.ts in the app, scripts/db.ts outside it).
  */
 import type { Sequelize } from 'sequelize'
+import { AuditEntry } from './audit-entry'
+import { Invitation } from './invitation'
+import { Link } from './link'
 import { Membership } from './membership'
+import { Part } from './part'
+import { PasswordResetToken } from './password-reset-token'
+import { Project } from './project'
+import { SignInAttempt } from './sign-in-attempt'
 import { Team } from './team'
 import { User } from './user'
 
-export { Membership, Team, User }
+export { AuditEntry, Invitation, Link, Membership, Part, PasswordResetToken, Project, SignInAttempt, Team, User }
 
 export function initModels(sequelize: Sequelize) {
   User.initModel(sequelize)
   Team.initModel(sequelize)
   Membership.initModel(sequelize)
+  Invitation.initModel(sequelize)
+  PasswordResetToken.initModel(sequelize)
+  Project.initModel(sequelize)
+  Link.initModel(sequelize)
+  Part.initModel(sequelize)
+  AuditEntry.initModel(sequelize)
+  SignInAttempt.initModel(sequelize)
 
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Team.hasMany(Membership, { foreignKey: 'teamId', as: 'memberships' })
   Membership.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })
-  return { User, Team, Membership }
+
+  Invitation.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })
+  Invitation.belongsTo(User, { foreignKey: 'invitedBy', as: 'inviter' })
+  PasswordResetToken.belongsTo(User, { foreignKey: 'userId', as: 'user' })
+
+  // `access`: the caller's membership in the row's team. Queries include it with
+  // `where: { userId }` and `required: true`, so a foreign row is simply not found.
+  Project.hasOne(Membership, { foreignKey: 'teamId', sourceKey: 'teamId', as: 'access', constraints: false })
+  Link.hasOne(Membership, { foreignKey: 'teamId', sourceKey: 'teamId', as: 'access', constraints: false })
+  Part.hasOne(Membership, { foreignKey: 'teamId', sourceKey: 'teamId', as: 'access', constraints: false })
+
+  Project.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })
+  Project.hasMany(Link, { foreignKey: 'projectId', as: 'links' })
+  Link.belongsTo(Project, { foreignKey: 'projectId', as: 'project' })
+  Link.belongsTo(User, { foreignKey: 'updatedBy', as: 'updater', constraints: false })
+  AuditEntry.belongsTo(User, { foreignKey: 'userId', as: 'user', constraints: false })
+  return { User, Team, Membership, Invitation, PasswordResetToken, Project, Link, Part, AuditEntry, SignInAttempt }
 }
