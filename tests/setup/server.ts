@@ -1,21 +1,36 @@
 /**
- * Global setup of the integration and browser tiers: start the built server
- * (BITSLACK_OUTPUT_DIR/server/index.mjs, built by scripts/test.sh) against the throwaway database,
- * wait until /api/health answers, and stop it afterwards.
+ * Global setup of the integration and browser tiers: start the SMTP fake
+ * (tests/support/mail-fake.ts), then the built server (BITSLACK_OUTPUT_DIR/server/index.mjs,
+ * built by scripts/test.sh) against the throwaway database and that fake, wait until
+ * /api/health answers, and stop both afterwards.
  */
 import { spawn, type ChildProcess } from 'node:child_process'
 import type { TestProject } from 'vitest/node'
+import { startMailFake, type MailFake } from '../support/mail-fake'
 
 const port = Number(process.env.BITSLACK_TEST_PORT || 3100)
 const baseURL = `http://127.0.0.1:${port}`
 
 let server: ChildProcess | undefined
+let mailFake: MailFake | undefined
 
 export async function setup(project: TestProject) {
   if (!process.env.DATABASE_URL) throw new Error('DATABASE_URL is not set: run the suite through npm test')
+  mailFake = await startMailFake()
   const output = process.env.BITSLACK_OUTPUT_DIR || '.output'
   server = spawn(process.execPath, [`${output}/server/index.mjs`], {
-    env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NODE_ENV: 'production' },
+    env: {
+      ...process.env,
+      PORT: String(port),
+      HOST: '127.0.0.1',
+      NODE_ENV: 'production',
+      APP_URL: baseURL,
+      SMTP_HOST: '127.0.0.1',
+      SMTP_PORT: String(mailFake.smtpPort),
+      SMTP_FROM: 'Bitslack <no-reply@bitslack.test>',
+      // tests give each rate-limit case its own client address through X-Forwarded-For
+      BITSLACK_TRUST_PROXY: '1',
+    },
     stdio: ['ignore', 'inherit', 'inherit'],
   })
   const deadline = Date.now() + 60_000
@@ -31,6 +46,7 @@ export async function setup(project: TestProject) {
     await new Promise((r) => setTimeout(r, 200))
   }
   project.provide('baseURL', baseURL)
+  project.provide('mailURL', mailFake.url)
 }
 
 export async function teardown() {
@@ -38,10 +54,13 @@ export async function teardown() {
     server.kill('SIGTERM')
     await new Promise((r) => server!.once('exit', r))
   }
+  await mailFake?.close()
 }
 
 declare module 'vitest' {
   export interface ProvidedContext {
     baseURL: string
+    /** the SMTP fake's loopback endpoint (tests/support/mail.ts) */
+    mailURL: string
   }
 }

@@ -1,0 +1,64 @@
+/**
+ * A tiny HTTP client with its own cookie jar: one per user, so each test speaks as that
+ * user's browser would (the sealed session cookie of nuxt-auth-utils).
+ */
+import { inject } from 'vitest'
+
+export interface ApiResponse<T = any> {
+  status: number
+  data: T
+  headers: Headers
+}
+
+export interface ApiClient {
+  request<T = any>(method: string, path: string, body?: unknown, headers?: Record<string, string>): Promise<ApiResponse<T>>
+  get<T = any>(path: string): Promise<ApiResponse<T>>
+  post<T = any>(path: string, body?: unknown): Promise<ApiResponse<T>>
+  patch<T = any>(path: string, body?: unknown): Promise<ApiResponse<T>>
+  delete<T = any>(path: string): Promise<ApiResponse<T>>
+  /** forget the session cookie */
+  reset(): void
+  readonly signedIn: boolean
+}
+
+export function apiClient(opts: { ip?: string } = {}): ApiClient {
+  const baseURL = inject('baseURL')
+  const jar = new Map<string, string>()
+  const request = async <T>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<ApiResponse<T>> => {
+    const res = await fetch(`${baseURL}${path}`, {
+      method,
+      headers: {
+        accept: 'application/json',
+        ...(body !== undefined ? { 'content-type': 'application/json' } : {}),
+        ...(jar.size ? { cookie: [...jar].map(([k, v]) => `${k}=${v}`).join('; ') } : {}),
+        ...(opts.ip ? { 'x-forwarded-for': opts.ip } : {}),
+        ...headers,
+      },
+      body: body === undefined ? undefined : typeof body === 'string' ? body : JSON.stringify(body),
+      redirect: 'manual',
+    })
+    for (const c of res.headers.getSetCookie()) {
+      const [pair] = c.split(';')
+      const eq = pair!.indexOf('=')
+      const name = pair!.slice(0, eq).trim()
+      const value = pair!.slice(eq + 1).trim()
+      if (!value || /max-age=0|expires=thu, 01 jan 1970/i.test(c)) jar.delete(name)
+      else jar.set(name, value)
+    }
+    const text = await res.text()
+    let data: unknown = text
+    if ((res.headers.get('content-type') ?? '').includes('json') && text) data = JSON.parse(text)
+    return { status: res.status, data: data as T, headers: res.headers }
+  }
+  return {
+    request,
+    get: (p) => request('GET', p),
+    post: (p, b) => request('POST', p, b),
+    patch: (p, b) => request('PATCH', p, b),
+    delete: (p) => request('DELETE', p),
+    reset: () => jar.clear(),
+    get signedIn() {
+      return jar.size > 0
+    },
+  }
+}
