@@ -115,13 +115,15 @@ export function analyzeChain(channel: ChannelSpec, options: { path?: Path } = {}
     let asymLo = model.tplh.min - model.tphl.max
     let asymHi = model.tplh.max - model.tphl.min
     if (model.pwdMax !== undefined) {
-      if (asymLo > model.pwdMax || asymHi < -model.pwdMax)
+      // a relative tolerance keeps entered values such as 40 ns / 32 ns / PWD max 8 ns consistent despite rounding
+      const tol = 1e-9 * Math.max(model.pwdMax, Math.abs(asymLo), Math.abs(asymHi)) + 1e-21
+      if (asymLo > model.pwdMax + tol || asymHi < -model.pwdMax - tol)
         throw new EngineInputError(
           [...stagePath, 'pwdMax'],
           `stage '${stage.name}': PWD max ${model.pwdMax} s is below the smallest |tPLH - tPHL| its delay corners allow`,
         )
-      asymLo = Math.max(asymLo, -model.pwdMax)
-      asymHi = Math.min(asymHi, model.pwdMax)
+      asymLo = Math.min(Math.max(asymLo, -model.pwdMax), model.pwdMax)
+      asymHi = Math.max(Math.min(asymHi, model.pwdMax), -model.pwdMax)
     }
     const asymTyp = Math.min(asymHi, Math.max(asymLo, model.tplh.typ - model.tphl.typ))
 
