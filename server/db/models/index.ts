@@ -10,11 +10,14 @@ import { Membership } from './membership'
 import { Part } from './part'
 import { PasswordResetToken } from './password-reset-token'
 import { Project } from './project'
+import { ReportComment } from './report-comment'
+import { ReportEvent } from './report-event'
+import { ReportRevision } from './report-revision'
 import { SignInAttempt } from './sign-in-attempt'
 import { Team } from './team'
 import { User } from './user'
 
-export { AuditEntry, Invitation, Link, Membership, Part, PasswordResetToken, Project, SignInAttempt, Team, User }
+export { AuditEntry, Invitation, Link, Membership, Part, PasswordResetToken, Project, ReportComment, ReportEvent, ReportRevision, SignInAttempt, Team, User }
 
 export function initModels(sequelize: Sequelize) {
   User.initModel(sequelize)
@@ -27,6 +30,9 @@ export function initModels(sequelize: Sequelize) {
   Part.initModel(sequelize)
   AuditEntry.initModel(sequelize)
   SignInAttempt.initModel(sequelize)
+  ReportRevision.initModel(sequelize)
+  ReportEvent.initModel(sequelize)
+  ReportComment.initModel(sequelize)
 
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
@@ -48,5 +54,15 @@ export function initModels(sequelize: Sequelize) {
   Link.belongsTo(Project, { foreignKey: 'projectId', as: 'project' })
   Link.belongsTo(User, { foreignKey: 'updatedBy', as: 'updater', constraints: false })
   AuditEntry.belongsTo(User, { foreignKey: 'userId', as: 'user', constraints: false })
-  return { User, Team, Membership, Invitation, PasswordResetToken, Project, Link, Part, AuditEntry, SignInAttempt }
+  // margin reports (issue 6): `access` as above, people by id, review steps and comments
+  ReportRevision.hasOne(Membership, { foreignKey: 'teamId', sourceKey: 'teamId', as: 'access', constraints: false })
+  ReportRevision.belongsTo(User, { foreignKey: 'authorId', as: 'author', constraints: false })
+  ReportRevision.belongsTo(User, { foreignKey: 'reviewerId', as: 'reviewer', constraints: false })
+  ReportRevision.belongsTo(User, { foreignKey: 'decidedBy', as: 'decider', constraints: false })
+  ReportRevision.hasMany(ReportEvent, { foreignKey: 'revisionId', as: 'events' })
+  ReportRevision.hasMany(ReportComment, { foreignKey: 'revisionId', as: 'comments' })
+  ReportEvent.belongsTo(User, { foreignKey: 'actorId', as: 'actor', constraints: false })
+  ReportEvent.belongsTo(User, { foreignKey: 'reviewerId', as: 'reviewer', constraints: false })
+  ReportComment.belongsTo(User, { foreignKey: 'authorId', as: 'author', constraints: false })
+  return { ReportRevision, ReportEvent, ReportComment, User, Team, Membership, Invitation, PasswordResetToken, Project, Link, Part, AuditEntry, SignInAttempt }
 }
