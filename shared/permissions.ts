@@ -33,8 +33,12 @@ export const PERMISSIONS = {
   'part.update': ['admin', 'engineer'],
   'part.delete': ['admin'],
 
-  /** margin reports (issue 6): freeze a revision, submit it to a reviewer */
+  /** margin reports (issue 6): read a revision, its PDF, CSV and JSON; the review queue */
+  'report.read': ['admin', 'engineer', 'reviewer', 'viewer'],
+  /** freeze a link's analysis into a new revision */
   'report.create': ['admin', 'engineer'],
+  /** submit a draft revision to a named reviewer */
+  'report.submit': ['admin', 'engineer'],
   'report.comment': ['admin', 'engineer', 'reviewer'],
   /** sign off or return a submitted revision (never one's own) */
   'report.decide': ['admin', 'reviewer'],
