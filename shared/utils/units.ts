@@ -104,6 +104,9 @@ function finite(value: number): ParseResult {
   return { ok: true, value: Number(value.toPrecision(12)) }
 }
 
+/** Units printed as plain numbers, never with an SI prefix (0.1 UI, not 100 mUI). */
+const PLAIN_UNITS = new Set(['', 'UI', '%', 'ppm'])
+
 export interface FormatOptions {
   /** significant digits, default 3 */
   digits?: number
@@ -123,6 +126,11 @@ export function formatEng(value: number | null | undefined, unit = '', opts: For
   if (value === null || value === undefined || !Number.isFinite(value)) return '–'
   const u = unit === '' ? '' : (UNIT_ALIASES[unit]?.[0] ?? unit)
   if (value === 0) return u ? `0${space}${u}` : '0'
+  if (PLAIN_UNITS.has(unit)) {
+    // ratios and counts read better without prefixes: 0.85, 1e-12, 10000 ppm, 20 %
+    const t = String(Number(value.toPrecision(digits)))
+    return u ? `${t}${space}${u}` : t
+  }
   const abs = Math.abs(value)
   let exp = Math.floor(Math.log10(abs) / 3) * 3
   let mant = value / 10 ** exp

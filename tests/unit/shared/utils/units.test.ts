@@ -70,7 +70,10 @@ describe('formatEng', () => {
     [0, 's', '0 s'],
     [1, 'V', '1 V'],
     [999.96, 'Hz', '1 kHz'],
-    [0.5, '', '500 m'],
+    [0.5, '', '0.5'],
+    [1e-12, '', '1e-12'],
+    [0.1, 'UI', '0.1 UI'],
+    [10000, 'ppm', '10000 ppm'],
     [8e6, 'Hz', '8 MHz'],
   ])('%d %s -> %s', (v, unit, text) => {
     expect(formatEng(v, unit)).toBe(text)

@@ -1,0 +1,52 @@
+import type { LinkAnalysis } from '~~/server/timing/analyze'
+
+/**
+ * Live analysis of the draft link: every valid edit is sent to POST /api/analyze after a
+ * short pause; the previous result stays on screen (dimmed) until the new one arrives,
+ * and only the answer to the latest request is kept.
+ */
+export function useLiveAnalysis(delayMs = 350) {
+  const store = useDraftLinkStore()
+  let timer: ReturnType<typeof setTimeout> | null = null
+  let seq = 0
+
+  async function run() {
+    const v = store.validation
+    if (!v?.success || !store.draft) return
+    const mine = ++seq
+    store.analysing = true
+    try {
+      const result = await $fetch<LinkAnalysis>('/api/analyze', { method: 'POST', body: store.draft })
+      if (mine !== seq) return
+      store.setAnalysis(result)
+      store.analysisError = null
+      store.serverIssues = {}
+    } catch (err) {
+      if (mine !== seq) return
+      store.analysisError = apiErrorMessage(err, 'The analysis failed.')
+      store.serverIssues = apiIssues(err)
+    } finally {
+      if (mine === seq) store.analysing = false
+    }
+  }
+
+  function schedule(immediate = false) {
+    if (timer) clearTimeout(timer)
+    if (!store.valid) {
+      store.analysing = false
+      return
+    }
+    store.analysing = true
+    timer = setTimeout(run, immediate ? 0 : delayMs)
+  }
+
+  if (import.meta.client) {
+    watch(() => JSON.stringify(store.draft), () => schedule(), { flush: 'post' })
+    onBeforeUnmount(() => {
+      if (timer) clearTimeout(timer)
+      seq++
+    })
+  }
+
+  return { schedule, run }
+}

@@ -1,0 +1,128 @@
+import { defineStore } from 'pinia'
+import { LinkSpec, type LinkInput } from '#shared/schemas/link'
+import type { LinkAnalysis } from '~~/server/timing/analyze'
+import type { LinkView } from '~/types/api'
+
+/** The server's answer to a stale save (409): the version now stored and the link as stored. */
+export interface SaveConflict {
+  currentVersion: number
+  link: LinkView | null
+}
+
+function clone<T>(v: T): T {
+  return JSON.parse(JSON.stringify(v)) as T
+}
+
+/**
+ * The link being edited: the saved version from the server, the draft with unsaved
+ * edits, the schema's issues as the user types, the latest analysis of the draft and
+ * the state of an explicit save (with the 409 of a concurrent edit).
+ */
+export const useDraftLinkStore = defineStore('draftLink', () => {
+  const linkId = ref<string | null>(null)
+  const saved = ref<LinkView | null>(null)
+  const draft = ref<LinkInput | null>(null)
+
+  const analysis = ref<LinkAnalysis | null>(null)
+  /** the draft the analysis belongs to has been superseded by edits not yet analysed */
+  const analysing = ref(false)
+  const analysisError = ref<string | null>(null)
+  /** issues the server's analysis returned (400 with issues), keyed by dotted path */
+  const serverIssues = ref<Record<string, string>>({})
+
+  const saving = ref(false)
+  const saveError = ref<string | null>(null)
+  const conflict = ref<SaveConflict | null>(null)
+  const savedAt = ref<string | null>(null)
+
+  const validation = computed(() => (draft.value ? LinkSpec.safeParse(draft.value) : null))
+  /** schema issues of the draft, keyed by dotted path (first message per path) */
+  const issues = computed<Record<string, string>>(() => {
+    const out: Record<string, string> = {}
+    const v = validation.value
+    if (v && !v.success) for (const i of v.error.issues) out[i.path.map(String).join('.')] ??= i.message
+    for (const [k, m] of Object.entries(serverIssues.value)) out[k] ??= m
+    return out
+  })
+  const valid = computed(() => !!validation.value?.success)
+  const dirty = computed(() => !!draft.value && !!saved.value && JSON.stringify(draft.value) !== JSON.stringify(saved.value.spec))
+
+  function load(link: LinkView) {
+    linkId.value = String(link.id)
+    saved.value = clone(link)
+    draft.value = clone(link.spec)
+    conflict.value = null
+    saveError.value = null
+    serverIssues.value = {}
+  }
+
+  /** Drop unsaved edits. */
+  function revert() {
+    if (saved.value) draft.value = clone(saved.value.spec)
+  }
+
+  async function save(): Promise<boolean> {
+    if (!draft.value || !saved.value || !linkId.value) return false
+    saving.value = true
+    saveError.value = null
+    try {
+      const res = await $fetch<LinkView>(`/api/links/${linkId.value}`, {
+        method: 'PATCH',
+        body: { version: saved.value.version, spec: draft.value },
+      })
+      const mine = JSON.stringify(draft.value)
+      saved.value = clone(res)
+      // keep edits made while the request was in flight
+      if (JSON.stringify(res.spec) === mine) draft.value = clone(res.spec)
+      conflict.value = null
+      savedAt.value = new Date().toISOString()
+      return true
+    } catch (err) {
+      const status = apiStatus(err)
+      if (status === 409) {
+        const data = (err as { data?: { data?: { currentVersion?: number; link?: LinkView } } }).data?.data
+        conflict.value = { currentVersion: data?.currentVersion ?? saved.value.version + 1, link: data?.link ?? null }
+      } else {
+        saveError.value = apiErrorMessage(err, 'The link could not be saved.')
+        if (status === 400) serverIssues.value = apiIssues(err)
+      }
+      return false
+    } finally {
+      saving.value = false
+    }
+  }
+
+  /** Conflict: take the version another person saved, discarding mine. */
+  function takeTheirs() {
+    if (conflict.value?.link) load(conflict.value.link)
+  }
+
+  /** Conflict: keep my draft and save it over the newer version. */
+  async function keepMine() {
+    const c = conflict.value
+    if (!c || !saved.value) return false
+    saved.value = c.link ? { ...clone(c.link) } : { ...saved.value, version: c.currentVersion }
+    conflict.value = null
+    return save()
+  }
+
+  function setAnalysis(a: LinkAnalysis | null) {
+    analysis.value = a
+  }
+
+  function reset() {
+    linkId.value = null
+    saved.value = null
+    draft.value = null
+    analysis.value = null
+    analysisError.value = null
+    conflict.value = null
+    saveError.value = null
+    serverIssues.value = {}
+  }
+
+  return {
+    linkId, saved, draft, analysis, analysing, analysisError, serverIssues, saving, saveError, conflict, savedAt,
+    validation, issues, valid, dirty, load, revert, save, takeTheirs, keepMine, setAnalysis, reset,
+  }
+})
