@@ -1,11 +1,12 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
+import type { z } from 'zod'
 import { ChannelSpec } from '../../../../shared/schemas/link'
 import { analyzeChain } from '../../../../server/timing/chain'
 import { EngineInputError } from '../../../../server/timing/errors'
 import { digital, LVCMOS33, ns } from './fixtures'
 
-type Input = Parameters<typeof ChannelSpec.parse>[0]
+type Input = z.input<typeof ChannelSpec>
 const chainOf = (stages: Input['stages'], receiver: Input['receiver'] = LVCMOS33) =>
   analyzeChain(ChannelSpec.parse({ id: 'c', role: 'uart', stages, receiver }))
 

@@ -14,7 +14,9 @@ type Uart = NonNullable<LinkInput['uart']>
 export const LVCMOS33: Receiver = { vdd: 3.3, vih: 2.0, vil: 0.8 }
 
 /** A digital stage with exact (min = typ = max) delays and ideal edges unless given. */
-export function digital(tplh: number, tphl: number, extra: Partial<Extract<Stage, { kind: 'digital' }>> = {}): Stage {
+type DigitalInput = Extract<Stage, { kind: 'digital' }>
+
+export function digital(tplh: number, tphl: number, extra: Partial<DigitalInput> = {}): DigitalInput {
   return {
     kind: 'digital',
     name: 'generic digital isolator',
@@ -22,7 +24,7 @@ export function digital(tplh: number, tphl: number, extra: Partial<Extract<Stage
     tplh: { min: tplh, typ: tplh, max: tplh },
     tphl: { min: tphl, typ: tphl, max: tphl },
     ...extra,
-  } as Stage
+  }
 }
 
 /** A UART link: one channel (or two) with the given stages and settings. */

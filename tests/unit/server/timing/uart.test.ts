@@ -7,7 +7,7 @@ import { digital, ns, uartLink } from './fixtures'
 type Parity = 'none' | 'even' | 'odd' | 'mark' | 'space'
 
 /** A direction with no distortion and exact clocks unless given. */
-function channel(over: Partial<UartChannelInput> & { rx?: Partial<ReceiverEnd> } = {}) {
+function channel(over: Omit<Partial<UartChannelInput>, 'rx'> & { rx?: Partial<ReceiverEnd> } = {}) {
   const { rx, ...rest } = over
   return analyzeUartChannel({
     channelId: 'a2b',
@@ -252,10 +252,10 @@ describe('agreement with a brute-force receiver', () => {
       stopBits: fc.constantFrom<1 | 1.5 | 2>(1, 1.5, 2),
       backToBack: fc.boolean(),
       sampler: fc.constantFrom(
-        { N: 16, ticks: [7, 8, 9], vote: 'majority' as const },
-        { N: 16, ticks: [7, 8, 9], vote: 'all' as const },
-        { N: 16, ticks: [8], vote: 'single' as const },
-        { N: 8, ticks: [3, 4, 5], vote: 'majority' as const },
+        { N: 16, ticks: [7, 8, 9] as number[], vote: 'majority' as const },
+        { N: 16, ticks: [7, 8, 9] as number[], vote: 'all' as const },
+        { N: 16, ticks: [8] as number[], vote: 'single' as const },
+        { N: 8, ticks: [3, 4, 5] as number[], vote: 'majority' as const },
       ),
       txPpm: fc.integer({ min: 0, max: 60000 }),
       rxPpm: fc.integer({ min: 0, max: 60000 }),
