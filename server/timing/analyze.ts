@@ -103,6 +103,7 @@ const UART_ASSUMPTIONS = [
   'Each clock is anywhere within its error interval (the stated +- bound, or the generator\'s quantisation error with the oscillator tolerance on top; a generator without tolerancePpm takes errorPpm as its tolerance and a generator without fractionBits has an integer divisor). The maximum baud and the rate sweep hold the error fractions found at the configured rate; the standard-rates table recomputes each generator at each rate.',
   'The clock tolerance reports the incoming-rate range, relative to the receiver\'s own rate, that meets the required margin with the link\'s distortion and sampler, the configured clock errors set aside.',
   'The error-probability estimate applies the Gaussian tail of the random jitter (sqrt 2 times the edge rms, the sync edge moving too) beyond each worst-case margin; total jitter is dual-Dirac, TJ = DJ + 2 Q(BER) RJ with Q(BER) = Phi^-1(1 - BER) and DJ twice the peak jitter.',
+  'A baud generator whose quantisation error exceeds 1 % is flagged (a common firmware rule of thumb).',
   'The maximum-baud search is exact (each margin in UI falls linearly with baud) up to a cap of the schema\'s 100 Mbaud limit or what each baud generator reaches with divisor 1.',
 ]
 
@@ -276,15 +277,25 @@ function secondDirection(u: UartSettings): Ends {
 }
 
 /** The contract says no NaN or infinity anywhere: check the whole result (the input is already finite by the schema). */
-function assertFinite(value: unknown, path: (string | number)[] = []): void {
-  if (typeof value === 'number') {
-    if (!Number.isFinite(value))
-      throw new EngineInputError(path, `the input leads to a non-finite result at ${path.join('.')}; check the values feeding it`)
-    return
-  }
+function assertFinite(value: unknown): void {
+  const bad = firstNonFinite(value)
+  if (bad) throw new EngineInputError(bad, `the input leads to a non-finite result at ${bad.join('.')}; check the values feeding it`)
+}
+
+/** Path of the first non-finite number in a value, or null (the path is built only on the way out). */
+function firstNonFinite(value: unknown): (string | number)[] | null {
+  if (typeof value === 'number') return Number.isFinite(value) ? null : []
+  if (value === null || typeof value !== 'object') return null
   if (Array.isArray(value)) {
-    value.forEach((v, i) => assertFinite(v, [...path, i]))
-    return
+    for (let i = 0; i < value.length; i++) {
+      const p = firstNonFinite(value[i])
+      if (p) return [i, ...p]
+    }
+    return null
   }
-  if (value && typeof value === 'object') for (const [k, v] of Object.entries(value)) assertFinite(v, [...path, k])
+  for (const k in value) {
+    const p = firstNonFinite((value as Record<string, unknown>)[k])
+    if (p) return [k, ...p]
+  }
+  return null
 }

@@ -210,30 +210,40 @@ function buildDirection(link: Link, ci: number, r: UartChannelResult): Direction
   const late = { cl: [] as number[], pos: [] as number[], rising: [] as number[], edge: [] as number[] }
   // jitter slots: 0 = sync edge, j = boundary j (1..K), K+1 = next start edge
   const K = layout.labels.length - 1
-  // Within one trial a run start (pos, direction) is most critical for the first bit of
-  // the run and a run end for the last: ce * Trx grows with the bit index. Keep those.
-  const firstEarly = new Map<string, number>()
-  const lastLate = new Map<string, number>()
+  // Within one trial a run start at `pos` is most critical for the first bit of its run
+  // (bit pos) and a run end for the last bit (pos - 1): the sample position grows with the
+  // bit index. A boundary seen with both directions is worst with the rising edge when
+  // D_rise - D_fall > 0, else with the falling one; so one entry per boundary and side.
+  const starts = new Map<number, { k: number; rise: boolean; fall: boolean }>()
+  const ends = new Map<number, { k: number; rise: boolean; fall: boolean }>()
   for (let k = 0; k <= K; k++) {
     for (const c of layout.early[k]!) {
-      const key = `${c.pos}|${c.rising}`
-      if (!firstEarly.has(key)) firstEarly.set(key, k)
+      const e = starts.get(c.pos) ?? { k, rise: false, fall: false }
+      if (c.rising) e.rise = true
+      else e.fall = true
+      starts.set(c.pos, e)
     }
-    for (const c of layout.late[k]!) lastLate.set(`${c.pos}|${c.rising}`, k)
+    for (const c of layout.late[k]!) {
+      const e = ends.get(c.pos) ?? { k, rise: false, fall: false }
+      e.k = Math.max(e.k, k)
+      if (c.rising) e.rise = true
+      else e.fall = true
+      ends.set(c.pos, e)
+    }
   }
-  for (const [key, k] of firstEarly) {
-    const [pos, rising] = key.split('|')
-    early.ce.push(k + s.early)
-    early.pos.push(Number(pos))
-    early.rising.push(rising === 'true' ? 1 : 0)
-    early.edge.push(Number(pos) === 0 ? 0 : Number(pos))
+  // rising: 0 falling only, 1 rising only, 2 both (the worse of the two)
+  const dirCode = (e: { rise: boolean; fall: boolean }) => (e.rise && e.fall ? 2 : e.rise ? 1 : 0)
+  for (const [pos, e] of starts) {
+    early.ce.push(e.k + s.early)
+    early.pos.push(pos)
+    early.rising.push(dirCode(e))
+    early.edge.push(pos)
   }
-  for (const [key, k] of lastLate) {
-    const [pos, rising] = key.split('|')
-    late.cl.push(k + s.late)
-    late.pos.push(Number(pos))
-    late.rising.push(rising === 'true' ? 1 : 0)
-    late.edge.push(Number(pos) > K ? K + 1 : Number(pos))
+  for (const [pos, e] of ends) {
+    late.cl.push(e.k + s.late)
+    late.pos.push(pos)
+    late.rising.push(dirCode(e))
+    late.edge.push(pos > K ? K + 1 : pos)
   }
   return {
     chain: buildChainPlan(link, ci),
@@ -290,16 +300,21 @@ export function spreadStudy(input: z.input<typeof LinkSpec> | Link, options: Spr
       if (sig > 0 || pk > 0) for (let j = 0; j < d.edges; j++) J[j] = sig * rng.normal() + pk * (2 * rng.next() - 1)
       else J.fill(0)
       const j0 = J[0]!
+      // rising code 2 (both directions seen): the start is latest, the end earliest, with max(P, 0) / min(P, 0)
+      const pLate = P > 0 ? P : 0
+      const pEarly = P < 0 ? P : 0
       const e = d.early
       for (let i = 0; i < e.ce.length; i++) {
         const edge = e.edge[i]!
-        const start = edge === 0 ? 0 : e.pos[i]! * Ttx + (e.rising[i] ? P : 0) + J[edge]! - j0
+        const code = e.rising[i]!
+        const start = edge === 0 ? 0 : e.pos[i]! * Ttx + (code === 0 ? 0 : code === 1 ? P : pLate) + J[edge]! - j0
         const m = e.ce[i]! * Trx + L - start
         if (m < worst) worst = m
       }
       const l = d.late
       for (let i = 0; i < l.cl.length; i++) {
-        const end = l.pos[i]! * Ttx + (l.rising[i] ? P : 0) + J[l.edge[i]!]! - j0
+        const code = l.rising[i]!
+        const end = l.pos[i]! * Ttx + (code === 0 ? 0 : code === 1 ? P : pEarly) + J[l.edge[i]!]! - j0
         const m = end - (l.cl[i]! * Trx + L)
         if (m < worst) worst = m
       }

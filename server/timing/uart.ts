@@ -366,34 +366,46 @@ export function bitMargins(layout: FrameLayout, s: SamplerModel, d: Distortion, 
   })
 }
 
-/** Every case of a frame as margin(UI) = A - baud * b, flattened for repeated evaluation. */
+/**
+ * Every case of a frame flattened for repeated evaluation: margin(UI) = A - baud * b with
+ * A = p / (1 + rx.max) - q / (1 + tx.min) (early) or q / (1 + tx.max) - p / (1 + rx.min) (late),
+ * p the deciding sample's position (receiver bits), q the boundary's (transmitter bits).
+ */
 export interface CaseTable {
-  A: Float64Array
+  p: Float64Array
+  q: Float64Array
+  /** 1 early, 0 late */
+  early: Uint8Array
   b: Float64Array
 }
 
-export function caseTable(layout: FrameLayout, s: SamplerModel, d: Distortion, e: ClockErrors): CaseTable {
+export function caseTable(layout: FrameLayout, s: SamplerModel, d: Distortion): CaseTable {
   let n = 0
   for (let k = 0; k < layout.labels.length; k++) n += layout.early[k]!.length + layout.late[k]!.length
-  const A = new Float64Array(n)
-  const b = new Float64Array(n)
+  const t: CaseTable = { p: new Float64Array(n), q: new Float64Array(n), early: new Uint8Array(n), b: new Float64Array(n) }
   let i = 0
   for (let k = 0; k < layout.labels.length; k++)
     for (const side of ['early', 'late'] as const)
       for (const c of side === 'early' ? layout.early[k]! : layout.late[k]!) {
-        const t = caseTerms(c, side, s, d, e)
-        A[i] = t.A
-        b[i++] = t.b
+        t.p[i] = side === 'early' ? c.bit + s.early : c.bit + s.late + s.latency
+        t.q[i] = c.pos
+        t.early[i] = side === 'early' ? 1 : 0
+        t.b[i++] = asymmetryLoss(c, side, d) + jitterLoss(c, side, d)
       }
-  return { A, b }
+  return t
 }
 
-/** Worst margin of the whole frame in UI at `baud` from a case table. */
-export function tableWorstUi(t: CaseTable, baud: number): number {
+/** Worst margin of the whole frame in UI at `baud` with clock errors `e`, from a case table. */
+export function tableWorstUi(t: CaseTable, e: ClockErrors, baud: number): number {
+  const rxHi = 1 / (1 + e.rx.max)
+  const rxLo = 1 / (1 + e.rx.min)
+  const txHi = 1 / (1 + e.tx.max)
+  const txLo = 1 / (1 + e.tx.min)
   let worst = Infinity
-  const { A, b } = t
-  for (let i = 0; i < A.length; i++) {
-    const m = A[i]! - baud * b[i]!
+  const { p, q, early, b } = t
+  for (let i = 0; i < p.length; i++) {
+    const A = early[i] ? p[i]! * rxHi - q[i]! * txLo : q[i]! * txHi - p[i]! * rxLo
+    const m = A - baud * b[i]!
     if (m < worst) worst = m
   }
   return worst
@@ -401,7 +413,7 @@ export function tableWorstUi(t: CaseTable, baud: number): number {
 
 /** Worst margin of the whole frame in UI at `baud`, from the closed form (no per-bit detail). */
 export function worstMarginUi(layout: FrameLayout, s: SamplerModel, d: Distortion, e: ClockErrors, baud: number): number {
-  return tableWorstUi(caseTable(layout, s, d, e), baud)
+  return tableWorstUi(caseTable(layout, s, d), e, baud)
 }
 
 export interface MaxBaudResult {
@@ -666,15 +678,15 @@ export function analyzeUartChannel(input: UartChannelInput): UartChannelResult {
   const rates = new Set<number>([set.baud])
   if (mb.maxBaud !== null) rates.add(mb.maxBaud)
   for (let i = 0; i < points; i++) rates.add(bottom * (top / bottom) ** (i / (points - 1)))
-  const table = caseTable(layout, sampler, distortion, errors)
+  const table = caseTable(layout, sampler, distortion)
   const rateSweep = [...rates]
     .filter((b) => b <= cap)
     .sort((a, b) => a - b)
-    .map((baud) => ({ baud, marginUi: tableWorstUi(table, baud) }))
+    .map((baud) => ({ baud, marginUi: tableWorstUi(table, errors, baud) }))
 
   const standardRates: StandardRateRow[] = STANDARD_BAUD_RATES.map((baud) => {
     const c = clocksAt(input, baud)
-    const m = c.tx.generator || c.rx.generator ? worstMarginUi(layout, sampler, distortion, { tx: c.tx, rx: c.rx }, baud) : tableWorstUi(table, baud)
+    const m = tableWorstUi(table, { tx: c.tx, rx: c.rx }, baud)
     const gen = c.rx.generator ?? c.tx.generator
     return {
       baud,

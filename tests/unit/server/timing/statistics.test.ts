@@ -50,20 +50,30 @@ describe('seeded generator, quantiles, histogram', () => {
     expect(Array.from({ length: 5 }, () => c.next())).not.toEqual(sa)
   })
 
-  it('uniform and normal draws have the right moments', () => {
+  it('uniform and normal draws have the right moments and tails', () => {
     const r = createRng(7)
     let s = 0
     let s2 = 0
+    let s4 = 0
+    let beyond2 = 0
+    let beyond3 = 0
     let u = 0
-    const n = 200000
+    const n = 400000
     for (let i = 0; i < n; i++) {
       const z = r.normal()
       s += z
       s2 += z * z
+      s4 += z ** 4
+      if (Math.abs(z) > 2) beyond2++
+      if (z > 3) beyond3++
       u += r.next()
     }
-    expect(Math.abs(s / n)).toBeLessThan(0.01) // common practice: mean 0 within ~4 standard errors
-    expect(Math.abs(s2 / n - 1)).toBeLessThan(0.015)
+    // common practice: standard normal mean 0, variance 1, fourth moment 3, P(|Z| > 2) = 0.0455, P(Z > 3) = 0.00135
+    expect(Math.abs(s / n)).toBeLessThan(0.008) // about 5 standard errors
+    expect(Math.abs(s2 / n - 1)).toBeLessThan(0.012)
+    expect(Math.abs(s4 / n - 3)).toBeLessThan(0.08)
+    expect(Math.abs(beyond2 / n - 2 * gaussianTail(2))).toBeLessThan(0.0017)
+    expect(Math.abs(beyond3 / n - gaussianTail(3))).toBeLessThan(0.0003)
     expect(Math.abs(u / n - 0.5)).toBeLessThan(0.003)
   })
 
