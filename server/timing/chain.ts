@@ -18,7 +18,6 @@
  */
 import type { ChannelSpec, ThresholdSpec } from '../../shared/schemas/link'
 import { thresholdFraction, thresholdOffset, type Direction } from './edges'
-import { EngineInputError } from './errors'
 import type { PhototransistorOperating } from './phototransistor'
 import { reduceStage } from './stages'
 import type { ChainResult, Corners, EdgeShape, StageEdgeModel, Warning } from './types'
@@ -118,12 +117,18 @@ export function analyzeChain(channel: ChannelSpec, options: { path?: Path } = {}
       // a relative tolerance keeps entered values such as 40 ns / 32 ns / PWD max 8 ns consistent despite rounding
       const tol = 1e-9 * Math.max(model.pwdMax, Math.abs(asymLo), Math.abs(asymHi)) + 1e-21
       if (asymLo > model.pwdMax + tol || asymHi < -model.pwdMax - tol)
-        throw new EngineInputError(
-          [...stagePath, 'pwdMax'],
-          `stage '${stage.name}': PWD max ${model.pwdMax} s is below the smallest |tPLH - tPHL| its delay corners allow`,
-        )
-      asymLo = Math.min(Math.max(asymLo, -model.pwdMax), model.pwdMax)
-      asymHi = Math.max(Math.min(asymHi, model.pwdMax), -model.pwdMax)
+        warnings.push({
+          code: 'other',
+          channel: channel.id,
+          stage: i,
+          message: `Stage '${stage.name}': PWD max ${model.pwdMax} s is below the smallest |tPLH - tPHL| its delay corners allow; the corners win (the asymmetry is taken as ${asymLo > 0 ? asymLo : asymHi} s). Check the entered values.`,
+        })
+      if (asymLo > model.pwdMax) asymHi = asymLo
+      else if (asymHi < -model.pwdMax) asymLo = asymHi
+      else {
+        asymLo = Math.max(asymLo, -model.pwdMax)
+        asymHi = Math.min(asymHi, model.pwdMax)
+      }
     }
     const asymTyp = Math.min(asymHi, Math.max(asymLo, model.tplh.typ - model.tphl.typ))
 
