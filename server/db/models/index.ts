@@ -4,10 +4,12 @@
  */
 import type { Sequelize } from 'sequelize'
 import { AuditEntry } from './audit-entry'
+import { Capture } from './capture'
 import { Invitation } from './invitation'
 import { Link } from './link'
 import { Membership } from './membership'
 import { Part } from './part'
+import { PartDatasheet } from './part-datasheet'
 import { PasswordResetToken } from './password-reset-token'
 import { Project } from './project'
 import { ReportComment } from './report-comment'
@@ -17,6 +19,7 @@ import { SignInAttempt } from './sign-in-attempt'
 import { Team } from './team'
 import { User } from './user'
 
+export { Capture, PartDatasheet }
 export { AuditEntry, Invitation, Link, Membership, Part, PasswordResetToken, Project, ReportComment, ReportEvent, ReportRevision, SignInAttempt, Team, User }
 
 export function initModels(sequelize: Sequelize) {
@@ -30,6 +33,8 @@ export function initModels(sequelize: Sequelize) {
   Part.initModel(sequelize)
   AuditEntry.initModel(sequelize)
   SignInAttempt.initModel(sequelize)
+  Capture.initModel(sequelize)
+  PartDatasheet.initModel(sequelize)
   ReportRevision.initModel(sequelize)
   ReportEvent.initModel(sequelize)
   ReportComment.initModel(sequelize)
@@ -54,6 +59,14 @@ export function initModels(sequelize: Sequelize) {
   Link.belongsTo(Project, { foreignKey: 'projectId', as: 'project' })
   Link.belongsTo(User, { foreignKey: 'updatedBy', as: 'updater', constraints: false })
   AuditEntry.belongsTo(User, { foreignKey: 'userId', as: 'user', constraints: false })
+
+  // uploads (issue 7): scoped by their team like links and parts
+  Capture.hasOne(Membership, { foreignKey: 'teamId', sourceKey: 'teamId', as: 'access', constraints: false })
+  Capture.belongsTo(Link, { foreignKey: 'linkId', as: 'link' })
+  Capture.belongsTo(User, { foreignKey: 'ownerId', as: 'owner', constraints: false })
+  PartDatasheet.hasOne(Membership, { foreignKey: 'teamId', sourceKey: 'teamId', as: 'access', constraints: false })
+  PartDatasheet.belongsTo(Part, { foreignKey: 'partId', as: 'part' })
+  PartDatasheet.belongsTo(User, { foreignKey: 'ownerId', as: 'owner', constraints: false })
   // margin reports (issue 6): `access` as above, people by id, review steps and comments
   ReportRevision.hasOne(Membership, { foreignKey: 'teamId', sourceKey: 'teamId', as: 'access', constraints: false })
   ReportRevision.belongsTo(User, { foreignKey: 'authorId', as: 'author', constraints: false })
