@@ -146,7 +146,7 @@ export function analyseCapture(parsed: ParsedCapture, options: AnalyseOptions = 
 }
 
 /** Parse a capture from a stream and analyse it: the measured result and the display waveform. */
-export async function analyseCaptureStream(source: AsyncIterable<Uint8Array | string>, options: ParseOptions & AnalyseOptions = {}): Promise<{ result: CaptureResult; waveform: CaptureWaveform }> {
+export async function analyseCaptureStream(source: AsyncIterable<Uint8Array | string> | Iterable<Uint8Array | string>, options: ParseOptions & AnalyseOptions = {}): Promise<{ result: CaptureResult; waveform: CaptureWaveform }> {
   const parsed = await parseCapture(source, options)
   return { result: analyseCapture(parsed, options), waveform: parsed.waveform }
 }

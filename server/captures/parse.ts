@@ -242,7 +242,7 @@ function fmt(x: number): string {
  * with the wrong number of fields or a non-number, time that does not increase, too
  * few or too many samples.
  */
-export async function parseCapture(source: AsyncIterable<Uint8Array | string>, options: ParseOptions = {}): Promise<ParsedCapture> {
+export async function parseCapture(source: AsyncIterable<Uint8Array | string> | Iterable<Uint8Array | string>, options: ParseOptions = {}): Promise<ParsedCapture> {
   const maxSamples = options.maxSamples ?? 2_000_000
   const minSamples = options.minSamples ?? 16
   const maxChannels = options.maxChannels ?? 8
