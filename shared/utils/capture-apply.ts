@@ -1,0 +1,95 @@
+/**
+ * "Apply to stage": turn a capture's measured result into a change of one stage of a
+ * link spec (timing-model.md section 6). Pure: the UI shows the changes and saves the new
+ * spec through the normal link PATCH with its version, so concurrent edits still get a
+ * 409 instead of being overwritten.
+ *
+ * - `typical`: a digital stage takes the measured tPLH / tPHL as its typical values and
+ *   spread: typ = mean, min / max = the wider of the measured extremes and mean -+ 3 sigma
+ *   (the engine's convention that min/max are +-3 sigma, timing-model.md section 1);
+ *   tr / tf (when measured) as typ = mean, max likewise.
+ * - `characterization`: a phototransistor stage gets a characterisation point (RL, tPLH,
+ *   tPHL, tr, tf) at the RL the capture was taken at; a point at the same RL is replaced.
+ */
+import type { CaptureResult } from '../../server/captures/analyse'
+import type { SummaryStats } from '../../server/captures/stats'
+import type { CharacterizationPoint, DelaySpec, Link, TransitionSpec } from '../schemas/link'
+
+export type ApplyMode = 'typical' | 'characterization'
+
+export interface StageRef {
+  /** index into spec.channels */
+  channel: number
+  /** index into that channel's stages */
+  stage: number
+}
+
+export interface AppliedCapture {
+  spec: Link
+  /** what changed, in words, for the confirmation dialog and the audit */
+  changes: string[]
+  warnings: string[]
+}
+
+/** Delay corners from measured statistics (seconds). */
+export function delayCorners(s: SummaryStats): DelaySpec {
+  return { min: Math.max(0, Math.min(s.min, s.mean - 3 * s.sigma)), typ: s.mean, max: Math.max(s.max, s.mean + 3 * s.sigma) }
+}
+
+/** Transition time from measured statistics (seconds). */
+export function transitionOf(s: SummaryStats): TransitionSpec {
+  return { typ: s.mean, max: Math.max(s.max, s.mean + 3 * s.sigma) }
+}
+
+const us = (s: number) => `${(s * 1e6).toPrecision(4)} us`
+
+export function applyCaptureToStage(spec: Link, at: StageRef, result: CaptureResult, mode: ApplyMode, opts: { rl?: number } = {}): AppliedCapture {
+  const p = result.pairing
+  if (!p) throw new Error('the capture has no input/output pairing: upload it with an input and an output channel')
+  if (!p.tPLH || !p.tPHL) throw new Error('the capture needs both output directions (tPLH and tPHL) to be applied')
+  const out = result.channels[p.output]
+  const next = structuredClone(spec)
+  const stage = next.channels[at.channel]?.stages[at.stage]
+  if (!stage) throw new Error(`channel ${at.channel + 1} has no stage ${at.stage + 1}`)
+  const changes: string[] = []
+  const warnings: string[] = [...result.warnings]
+  if (mode === 'typical') {
+    if (stage.kind !== 'digital') throw new Error(`typical values apply to a digital stage; "${stage.name}" is ${stage.kind === 'phototransistor' ? 'a phototransistor stage: add a characterisation point instead' : `a ${stage.kind} stage`}`)
+    stage.tplh = delayCorners(p.tPLH)
+    stage.tphl = delayCorners(p.tPHL)
+    changes.push(`tPLH ${us(stage.tplh.min)} / ${us(stage.tplh.typ)} / ${us(stage.tplh.max)} (n ${p.tPLH.count})`, `tPHL ${us(stage.tphl.min)} / ${us(stage.tphl.typ)} / ${us(stage.tphl.max)} (n ${p.tPHL.count})`)
+    if (out?.tr) {
+      stage.tr = transitionOf(out.tr)
+      changes.push(`tr ${us(stage.tr.typ)} typ, ${us(stage.tr.max)} max`)
+    }
+    if (out?.tf) {
+      stage.tf = transitionOf(out.tf)
+      changes.push(`tf ${us(stage.tf.typ)} typ, ${us(stage.tf.max)} max`)
+    }
+    if (stage.inverting !== p.inverting) warnings.push(`the capture shows a${p.inverting ? 'n inverting' : ' non-inverting'} path but the stage is set ${stage.inverting ? 'inverting' : 'non-inverting'}; check the wiring or the channels`)
+  } else {
+    if (stage.kind !== 'phototransistor') throw new Error(`a characterisation point applies to a phototransistor stage; "${stage.name}" is a ${stage.kind} stage`)
+    const rl = opts.rl
+    if (rl === undefined || !(rl > 0)) throw new Error('give the pull-up RL the capture was taken at')
+    const point: CharacterizationPoint = {
+      rl,
+      tplh: p.tPLH.mean,
+      tphl: p.tPHL.mean,
+      ...(out?.tr ? { tr: out.tr.mean } : {}),
+      ...(out?.tf ? { tf: out.tf.mean } : {}),
+    }
+    const i = stage.characterization.findIndex((c) => Math.abs(c.rl - rl) <= 1e-9 * rl)
+    if (i >= 0) {
+      // keep the point's load capacitance: the capture was taken on the same board
+      stage.characterization[i] = { ...stage.characterization[i], ...point }
+      changes.push(`characterisation point at RL ${rl} ohm replaced`)
+    } else {
+      if (stage.characterization.length >= 32) throw new Error('the stage already has 32 characterisation points')
+      stage.characterization.push(point)
+      stage.characterization.sort((a, b) => a.rl - b.rl)
+      changes.push(`characterisation point added at RL ${rl} ohm`)
+    }
+    changes.push(`tPLH ${us(point.tplh!)}, tPHL ${us(point.tphl!)}${point.tr !== undefined ? `, tr ${us(point.tr)}` : ''}${point.tf !== undefined ? `, tf ${us(point.tf)}` : ''}`)
+  }
+  return { spec: next, changes, warnings }
+}
