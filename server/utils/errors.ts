@@ -6,6 +6,7 @@
 import type { H3Event } from 'h3'
 import type { z } from 'zod'
 import { EngineInputError } from '../timing/errors'
+import { isDatabaseOutage } from './database-outage'
 
 export interface Issue {
   /** the field, as zod names it: ['channels', 0, 'receiver', 'vih'] */
@@ -103,6 +104,10 @@ export function toHttpError(err: unknown, event?: H3Event) {
     return createError({ statusCode: 429, statusMessage: err.message, data: { retryAfter: err.retryAfter } })
   }
   if (err instanceof MailDeliveryError) return createError({ statusCode: 502, statusMessage: err.message })
+  if (isDatabaseOutage(err)) {
+    if (event) setResponseHeader(event, 'Retry-After', '5')
+    return createError({ statusCode: 503, statusMessage: 'the database is unavailable; try again shortly' })
+  }
   return err
 }
 
