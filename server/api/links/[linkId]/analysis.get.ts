@@ -1,0 +1,9 @@
+import { analyzeLink } from '../../../timing'
+
+/** The saved link's full analysis, computed now by the current engine (any member). */
+export default defineApiHandler(async (event) => {
+  await requireUser(event)
+  const { linkId } = await validParams(event, idParams('linkId'))
+  const { link } = await requireLink(event, linkId, 'link.read')
+  return analyzeLink(link.spec)
+})

@@ -1,0 +1,74 @@
+/** Project, link and part DTOs (shared/types/workspace.ts) from models. */
+import type { Role } from '../../shared/schemas/roles'
+import type { LinkDto, LinkSummaryDto, PartDto, ProjectDetailDto, ProjectDto } from '../../shared/types/workspace'
+import type { Link, Part, Project } from '../db/models'
+
+export function presentProject(p: Project, linkCount: number): ProjectDto {
+  return {
+    id: p.id,
+    teamId: p.teamId,
+    name: p.name,
+    description: p.description,
+    version: p.version,
+    linkCount,
+    createdAt: p.createdAt.toISOString(),
+    updatedAt: p.updatedAt.toISOString(),
+  }
+}
+
+export function presentLinkSummary(l: Link): LinkSummaryDto {
+  return {
+    id: l.id,
+    name: l.name,
+    protocol: l.protocol,
+    version: l.version,
+    verdict: l.summary?.verdict ?? null,
+    worstMarginUi: l.summary?.worstMarginUi ?? null,
+    worstSlack: l.summary?.worstSlack ?? null,
+    maxBaud: l.summary?.maxBaud ?? null,
+    maxSclkHz: l.summary?.maxSclkHz ?? null,
+    engineVersion: l.summary?.engineVersion ?? null,
+    updatedAt: l.updatedAt.toISOString(),
+  }
+}
+
+export function presentProjectDetail(p: Project, links: Link[], role: Role): ProjectDetailDto {
+  return { ...presentProject(p, links.length), role, links: links.map(presentLinkSummary) }
+}
+
+export function presentLink(l: Link, role: Role): LinkDto {
+  return {
+    id: l.id,
+    projectId: l.projectId,
+    teamId: l.teamId,
+    name: l.name,
+    version: l.version,
+    spec: l.spec,
+    summary: {
+      verdict: l.summary?.verdict ?? null,
+      worstMarginUi: l.summary?.worstMarginUi ?? null,
+      worstSlack: l.summary?.worstSlack ?? null,
+      maxBaud: l.summary?.maxBaud ?? null,
+      maxSclkHz: l.summary?.maxSclkHz ?? null,
+      engineVersion: l.summary?.engineVersion ?? null,
+    },
+    createdAt: l.createdAt.toISOString(),
+    updatedAt: l.updatedAt.toISOString(),
+    updatedBy: l.updater ? { id: l.updater.id, name: l.updater.name } : null,
+    role,
+  }
+}
+
+export function presentPart(p: Part): PartDto {
+  return {
+    id: p.id,
+    teamId: p.teamId,
+    name: p.name,
+    category: p.category,
+    description: p.description,
+    builtIn: p.teamId === null,
+    version: p.version,
+    stage: p.stage,
+    updatedAt: p.updatedAt.toISOString(),
+  }
+}

@@ -1,0 +1,79 @@
+/** Response DTOs of projects, links and parts. Dates are ISO 8601 strings. */
+import type { Link, Protocol, StageSpec } from '../schemas/link'
+import type { PartCategory } from '../schemas/part'
+import type { Role } from '../schemas/roles'
+
+export type Verdict = 'pass' | 'marginal' | 'fail'
+
+/** The analysis of a link condensed at save time (stored on the link row). */
+export interface LinkSummaryFields {
+  verdict: Verdict | null
+  /** worst margin of the frame, unit intervals (UART); null when unbounded or SPI */
+  worstMarginUi: number | null
+  /** worst SPI slack, seconds; null for UART */
+  worstSlack: number | null
+  /** highest baud meeting the required margin (UART), null when none passes or SPI */
+  maxBaud: number | null
+  /** highest SCLK meeting every check (SPI), hertz; null when none passes or UART */
+  maxSclkHz: number | null
+  /** engine version that produced the summary */
+  engineVersion: string | null
+}
+
+export interface LinkSummaryDto extends LinkSummaryFields {
+  id: number
+  name: string
+  protocol: Protocol
+  version: number
+  updatedAt: string
+}
+
+export interface PersonRef {
+  id: number
+  name: string
+}
+
+export interface ProjectDto {
+  id: number
+  teamId: number
+  name: string
+  description: string
+  version: number
+  linkCount: number
+  createdAt: string
+  updatedAt: string
+}
+
+export interface ProjectDetailDto extends ProjectDto {
+  /** the caller's role in the project's team */
+  role: Role
+  links: LinkSummaryDto[]
+}
+
+export interface LinkDto {
+  id: number
+  projectId: number
+  teamId: number
+  name: string
+  version: number
+  spec: Link
+  summary: LinkSummaryFields
+  createdAt: string
+  updatedAt: string
+  updatedBy: PersonRef | null
+  /** the caller's role in the link's team */
+  role: Role
+}
+
+export interface PartDto {
+  /** stringify it for a stage's `partId` */
+  id: number
+  teamId: number | null
+  name: string
+  category: PartCategory
+  description: string
+  builtIn: boolean
+  version: number
+  stage: StageSpec
+  updatedAt: string
+}
