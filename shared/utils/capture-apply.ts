@@ -48,7 +48,8 @@ export function applyCaptureToStage(spec: Link, at: StageRef, result: CaptureRes
   if (!p) throw new Error('the capture has no input/output pairing: upload it with an input and an output channel')
   if (!p.tPLH || !p.tPHL) throw new Error('the capture needs both output directions (tPLH and tPHL) to be applied')
   const out = result.channels[p.output]
-  const next = structuredClone(spec)
+  // a JSON copy: the spec is plain data, and the UI passes a reactive proxy (which structuredClone refuses)
+  const next = JSON.parse(JSON.stringify(spec)) as Link
   const stage = next.channels[at.channel]?.stages[at.stage]
   if (!stage) throw new Error(`channel ${at.channel + 1} has no stage ${at.stage + 1}`)
   const changes: string[] = []
