@@ -18,12 +18,14 @@ export interface ApiClient {
   delete<T = any>(path: string): Promise<ApiResponse<T>>
   /** forget the session cookie */
   reset(): void
+  /** a second client holding the same cookies (a sign-out or sign-up on it leaves this one as it is) */
+  clone(opts?: { ip?: string }): ApiClient
   readonly signedIn: boolean
 }
 
-export function apiClient(opts: { ip?: string } = {}): ApiClient {
+export function apiClient(opts: { ip?: string } = {}, cookies?: Map<string, string>): ApiClient {
   const baseURL = inject('baseURL')
-  const jar = new Map<string, string>()
+  const jar = new Map<string, string>(cookies)
   const request = async <T>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<ApiResponse<T>> => {
     const res = await fetch(`${baseURL}${path}`, {
       method,
@@ -57,6 +59,7 @@ export function apiClient(opts: { ip?: string } = {}): ApiClient {
     patch: (p, b) => request('PATCH', p, b),
     delete: (p) => request('DELETE', p),
     reset: () => jar.clear(),
+    clone: (o) => apiClient({ ...opts, ...o }, jar),
     get signedIn() {
       return jar.size > 0
     },
