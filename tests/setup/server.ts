@@ -1,5 +1,5 @@
 /**
- * Global setup of the integration and browser tiers: start the SMTP fake
+ * Global setup of the integration and browser tiers: seed the built-in parts, start the SMTP fake
  * (tests/support/mail-fake.ts), then the built server (BITSLACK_OUTPUT_DIR/server/index.mjs,
  * built by scripts/test.sh) against the throwaway database and that fake, wait until
  * /api/health answers, and stop both afterwards. The S3 fake (tests/support/storage-fake.ts)
@@ -7,6 +7,9 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process'
 import type { TestProject } from 'vitest/node'
+import { createSequelize } from '../../server/db/sequelize'
+import { initModels } from '../../server/db/models'
+import { seedBuiltInParts } from '../../server/db/seeders/demo'
 import { startMailFake, type MailFake } from '../support/mail-fake'
 import { startStorageFake, type StorageFake } from '../support/storage-fake'
 
@@ -19,6 +22,14 @@ let storageFake: StorageFake | undefined
 
 export async function setup(project: TestProject) {
   if (!process.env.DATABASE_URL) throw new Error('DATABASE_URL is not set: run the suite through npm test')
+  // the built-in part library, as every deployment's seed inserts it
+  const sequelize = createSequelize(process.env.DATABASE_URL)
+  initModels(sequelize)
+  try {
+    await seedBuiltInParts()
+  } finally {
+    await sequelize.close()
+  }
   mailFake = await startMailFake()
   storageFake = await startStorageFake()
   // test files that start a spare server of their own (tests/integration/faults) inherit it
