@@ -113,7 +113,7 @@ export function analyzeLink(input: z.input<typeof LinkSpec> | Link): LinkAnalysi
   const warnings: Warning[] = []
   const assumptions = [...GENERAL_ASSUMPTIONS]
 
-  const chains: ChainAnalysis[] = link.channels.map((ch, i) => analyzeChain(ch, { path: ['channels', i] }))
+  const chains: ChainAnalysis[] = link.channels.map((ch) => analyzeChain(ch))
   const functional = chains.map((c, i) => {
     const rx = link.channels[i]!.receiver
     const inverted = (c.polarity === 'inverted') !== (rx.invert ?? false)

@@ -58,8 +58,6 @@ export interface ChainAnalysis extends ChainResult {
   reachable: boolean
 }
 
-type Path = (string | number)[]
-
 const add = (a: Corners, b: Corners): Corners => ({ min: a.min + b.min, typ: a.typ + b.typ, max: a.max + b.max })
 const flipDir = (d: Direction): Direction => (d === 'rise' ? 'fall' : 'rise')
 
@@ -84,10 +82,10 @@ function thresholdRange(t: ThresholdSpec): { lo: number; hi: number; typ: number
 /**
  * Propagate a channel's edges and build its chain result.
  * @param channel the validated channel (schema defaults applied)
- * @param options.path where the channel sits in the link, for error paths and warnings
+ * @param _options.path where the channel sits in the link; accepted for callers that pass
+ *   it, though nothing here fails any more (warnings carry the channel id and stage index)
  */
-export function analyzeChain(channel: ChannelSpec, options: { path?: Path } = {}): ChainAnalysis {
-  const path = options.path ?? []
+export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | number)[] } = {}): ChainAnalysis {
   const rx = channel.receiver
   const warnings: Warning[] = []
   let reachable = true
@@ -102,7 +100,6 @@ export function analyzeChain(channel: ChannelSpec, options: { path?: Path } = {}
   let partSkew = 0
 
   channel.stages.forEach((stage, i) => {
-    const stagePath = [...path, 'stages', i]
     const { model, warnings: stageWarnings, operating } = reduceStage(stage, rx)
     for (const w of stageWarnings) warnings.push({ ...w, channel: channel.id, stage: i })
 

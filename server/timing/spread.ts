@@ -108,7 +108,7 @@ interface DirectionPlan {
 
 function buildChainPlan(link: Link, ci: number): ChainPlan {
   const ch = link.channels[ci]!
-  const analysis = analyzeChain(ch, { path: ['channels', ci] })
+  const analysis = analyzeChain(ch)
   const stages: StagePlan[] = []
   // shapes of the current up/down edges (which stage launched them)
   let up: EdgeInfo = { shape: 'ramp', vLow: 0, vHigh: ch.receiver.vdd }
