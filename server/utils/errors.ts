@@ -105,7 +105,7 @@ export function toHttpError(err: unknown, event?: H3Event) {
   }
   if (err instanceof MailDeliveryError) return createError({ statusCode: 502, statusMessage: err.message })
   if (isDatabaseOutage(err)) {
-    if (event) setResponseHeader(event, 'Retry-After', '5')
+    if (event) setResponseHeader(event, 'Retry-After', 5)
     return createError({ statusCode: 503, statusMessage: 'the database is unavailable; try again shortly' })
   }
   return err

@@ -1,5 +1,7 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize'
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
 import type { Role } from '../../../shared/schemas/roles'
+import type { Team } from './team'
+import type { User } from './user'
 
 export class Membership extends Model<InferAttributes<Membership>, InferCreationAttributes<Membership>> {
   declare id: CreationOptional<number>
@@ -8,6 +10,9 @@ export class Membership extends Model<InferAttributes<Membership>, InferCreation
   declare role: Role
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
+  /** loaded by `include` (associations in ./index.ts) */
+  declare user?: NonAttribute<User>
+  declare team?: NonAttribute<Team>
 
   static initModel(sequelize: Sequelize) {
     Membership.init(
