@@ -598,6 +598,12 @@ export interface UartChannelResult {
   rateSweep: { baud: number; marginUi: number }[]
   standardRates: StandardRateRow[]
   berEstimate: BerEstimate
+  /**
+   * Statistical view of the asymmetry (timing-model.md section 1): the chain PWD as its
+   * nominal value +- 3 sigma (root-sum-square of the stages' spreads), within the worst-case
+   * interval, at the configured clocks and jitter; null without pwdTyp / pwdSigma.
+   */
+  statistical: { pwd: { min: number; max: number }; worstMarginUi: number } | null
   warnings: Warning[]
 }
 
@@ -606,8 +612,8 @@ export interface UartChannelInput {
   settings: Pick<UartSettings, 'baud' | 'dataBits' | 'parity' | 'stopBits' | 'backToBack' | 'requiredMarginUi' | 'berTarget'>
   tx: TransmitterEnd
   rx: ReceiverEnd
-  /** chain distortion at the receiving pin, physical directions */
-  chain: { pwd: { min: number; max: number }; jitterPeak: number; jitterRms: number }
+  /** chain distortion at the receiving pin, physical directions (pwdTyp / pwdSigma for the statistical view) */
+  chain: { pwd: { min: number; max: number }; jitterPeak: number; jitterRms: number; pwdTyp?: number; pwdSigma?: number }
   /** the receiver inverts (logical edges are the opposite physical ones) */
   receiverInvert: boolean
   /** the channel cannot work at all (inverted polarity, unreachable threshold, unsaturated output) */
@@ -700,6 +706,15 @@ export function analyzeUartChannel(input: UartChannelInput): UartChannelResult {
 
   const berEstimate = estimateBer(bits, distortion, set.berTarget, T)
 
+  let statistical: UartChannelResult['statistical'] = null
+  if (input.chain.pwdTyp !== undefined && input.chain.pwdSigma !== undefined) {
+    const lo = Math.max(input.chain.pwd.min, input.chain.pwdTyp - 3 * input.chain.pwdSigma)
+    const hi = Math.min(input.chain.pwd.max, input.chain.pwdTyp + 3 * input.chain.pwdSigma)
+    const phys = { min: Math.min(lo, hi), max: Math.max(lo, hi) }
+    const spwd = input.receiverInvert ? { min: -phys.max, max: -phys.min } : phys
+    statistical = { pwd: spwd, worstMarginUi: worstMarginUi(layout, sampler, { ...distortion, pwd: spwd }, errors, set.baud) }
+  }
+
   return {
     channelId: input.channelId,
     baud: set.baud,
@@ -722,6 +737,7 @@ export function analyzeUartChannel(input: UartChannelInput): UartChannelResult {
     rateSweep,
     standardRates,
     berEstimate,
+    statistical,
     warnings,
   }
 }

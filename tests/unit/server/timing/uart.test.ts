@@ -300,3 +300,18 @@ describe('frame enumeration', () => {
     expect((performance.now() - t0) / 50).toBeLessThan(20) // generous: the goal is well under 1 ms, the machine is shared
   })
 })
+
+describe('statistical view of the asymmetry', () => {
+  it('root-sum-square of many stages is narrower than the interval sum, so its margin is at least the worst case', () => {
+    // timing-model.md section 1: the statistical view adds the spreads as root-sum-square (min/max = +-3 sigma)
+    const c = { min: 20 * ns, typ: 40 * ns, max: 60 * ns }
+    const stage = { ...digital(0, 0), tplh: c, tphl: c }
+    const result = analyzeLink(uartLink([stage, stage, stage, stage], { baud: 2e6 }))
+    const r = result.uart!
+    const ch = result.channels[0]!
+    // four equal spreads: RSS = half the linear sum
+    expect(ch.pwdSigma * 3).toBeCloseTo((ch.pwd.max - ch.pwd.min) / 4, 15)
+    expect(r.statistical!.pwd.max).toBeCloseTo(ch.pwd.max / 2, 15)
+    expect(r.statistical!.worstMarginUi).toBeGreaterThan(r.worstMarginUi)
+  })
+})
