@@ -3,17 +3,29 @@
  * and extractor (server/captures), report progress on the row, store the result and the
  * display waveform. A file that turns out to be malformed past the part checked at upload
  * ends as status "failed" with the message naming the line, and its object is removed.
- * Any other error (storage or database unreachable) is thrown so the queue retries.
+ * Any other error (storage or database unreachable) is thrown so the queue retries; after
+ * the last attempt the capture is marked failed with that error.
  */
 import { analyseCaptureStream } from '../captures/analyse'
 import { CaptureFormatError } from '../captures/errors'
 import { Capture } from '../db/models'
 import { useStorage } from '../storage/s3'
 
-export async function extractCapture(captureId: number): Promise<void> {
+export async function extractCapture(captureId: number, opts: { lastAttempt?: boolean } = {}): Promise<void> {
   const capture = await Capture.findByPk(captureId)
   if (!capture || capture.status === 'done' || capture.status === 'failed') return
   await capture.update({ status: 'running', progress: 0, error: null })
+  try {
+    await analyse(capture)
+  } catch (err) {
+    // the queue retries; after the last attempt the user sees why instead of "running" forever
+    if (opts.lastAttempt) await capture.update({ status: 'failed', error: `the extraction failed after several attempts: ${err instanceof Error ? err.message : String(err)}` })
+    throw err
+  }
+}
+
+async function analyse(capture: Capture): Promise<void> {
+  const captureId = capture.id
   const { body, size } = await useStorage().stream(capture.objectKey)
   const total = size || Number(capture.size) || 1
   let reported = 0

@@ -9,15 +9,18 @@ export const CAPTURE_EXTRACT = 'capture-extract'
 
 let boss: PgBoss | undefined
 
-export async function startQueue(connectionString: string, handlers: { extractCapture: (captureId: number) => Promise<void> }): Promise<PgBoss> {
+/** Attempts of one extraction: the first and RETRY_LIMIT retries. */
+const RETRY_LIMIT = 2
+
+export async function startQueue(connectionString: string, handlers: { extractCapture: (captureId: number, opts: { lastAttempt: boolean }) => Promise<void> }): Promise<PgBoss> {
   const b = new PgBoss({ connectionString, max: 4, application_name: 'bitslack-jobs' })
   b.on('error', (err) => console.error('[bitslack] job queue:', err instanceof Error ? err.message : err))
   await b.start()
   // stately: at most one queued and one running job per capture (singletonKey), so a
   // re-send after a crash or by a second instance never runs the same capture twice at once
-  await b.createQueue(CAPTURE_EXTRACT, { name: CAPTURE_EXTRACT, policy: 'stately', retryLimit: 2, retryDelay: 5, expireInSeconds: 15 * 60 })
-  await b.work<{ captureId: number }>(CAPTURE_EXTRACT, { batchSize: 1, pollingIntervalSeconds: 1 }, async ([job]) => {
-    if (job) await handlers.extractCapture(job.data.captureId)
+  await b.createQueue(CAPTURE_EXTRACT, { name: CAPTURE_EXTRACT, policy: 'stately', retryLimit: RETRY_LIMIT, retryDelay: 5, expireInSeconds: 15 * 60 })
+  await b.work<{ captureId: number }>(CAPTURE_EXTRACT, { batchSize: 1, pollingIntervalSeconds: 1, includeMetadata: true }, async ([job]) => {
+    if (job) await handlers.extractCapture(job.data.captureId, { lastAttempt: job.retryCount >= RETRY_LIMIT })
   })
   boss = b
   return b

@@ -153,6 +153,20 @@ describe('captures: upload, extraction job, results', () => {
     expect((await world.clients.viewer.patch(`/api/links/${linkId}`, { version: saved.data.version, spec })).status).toBe(403)
   })
 
+  it('a malformed line past the part checked at upload fails the job with the line named, and the object is removed', async () => {
+    const lines = telemetryCapture().text.split('\n')
+    expect(lines.length).toBeGreaterThan(60_000) // about 2.5 MB: the upload checks the first 1 MB only
+    lines[60_000] = 'not,a,number' // file line 60001
+    const res = await upload(cookies.engineer, `/api/links/${linkId}/captures`, new TextEncoder().encode(lines.join('\n')), 'late.csv')
+    expect(res.status, JSON.stringify(res.data)).toBe(202)
+    const done = await until(() => get(cookies.engineer, `/api/captures/${res.data.id}`), (r) => r.json?.status === 'done' || r.json?.status === 'failed')
+    expect(done.json.status).toBe('failed')
+    expect(done.json.error).toBe('line 60001: column 1 ("Time (s)") is not a number: "not"')
+    const [row] = await useTestDb().query<{ object_key: string }>('SELECT object_key FROM captures WHERE id = :id', { replacements: { id: res.data.id }, type: QueryTypes.SELECT })
+    expect(await storedKeys(row!.object_key)).toEqual([])
+    expect((await get(cookies.engineer, `/captures/${res.data.id}/file`)).status).toBe(404)
+  })
+
   it('another team cannot read or download a capture; signed out is 401', async () => {
     const { text } = telemetryCapture()
     const res = await upload(cookies.engineer, `/api/links/${linkId}/captures`, new TextEncoder().encode(text), 'c.csv')
