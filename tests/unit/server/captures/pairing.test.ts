@@ -17,11 +17,11 @@ interface Scenario {
 }
 
 /** A two-channel capture (input pin, coupler output) as CSV text, and its true edges. */
-function capture(s: Scenario, dt = 50e-9, bits = 200) {
-  const input = nrzEdges(bits, BIT, 20e-6, 42)
+function capture(s: Scenario, dt = 50e-9, bits = 200, bit = BIT) {
+  const input = nrzEdges(bits, bit, 0.8 * bit, 42) // the first edge 0.8 bit into the record
   let output: SynthEdge[] = delayedEdges(input, { tPLH: s.tPLH, tPHL: s.tPHL, inverting: s.inverting, jitterRms: s.jitterRms, seed: 5 })
   if (s.drop !== undefined) output = output.filter((_, i) => i !== s.drop)
-  const n = Math.ceil((bits * BIT + 60e-6) / dt)
+  const n = Math.ceil((bits + 3) * bit / dt) // three idle bits after the last one
   const vin = sampleWave(n, 0, dt, { edges: input, low: 0, high: 3.3, rise: { kind: 'ramp', duration: 20e-9 }, fall: { kind: 'ramp', duration: 20e-9 }, noiseRms: 0.01, seed: 1 })
   const vout = sampleWave(n, 0, dt, { edges: output, low: 0.15, high: 3.3, rise: s.rise, fall: s.fall, noiseRms: s.noiseRms, seed: 2 })
   const text = toCsv(0, dt, [vin, vout], { header: ['Time (s),TX pin (V),Coupler out (V)'] })
@@ -76,7 +76,7 @@ describe('input/output pairing: tPLH and tPHL', () => {
   it('a non-inverting digital isolator: detected as non-inverting, and sigma follows the jitter', async () => {
     // common practice: 60 ns / 45 ns delays with 5 ns rms jitter; the sample sigma of ~100 values is within 25 % of it
     const s: Scenario = { tPLH: 60e-9, tPHL: 45e-9, inverting: false, rise: { kind: 'ramp', duration: 4e-9 }, fall: { kind: 'ramp', duration: 4e-9 }, noiseRms: 0.02, jitterRms: 5e-9 }
-    const { text } = capture(s, 1e-9, 40)
+    const { text } = capture(s, 1e-9, 120, 1e-6) // 1 Mbit/s, 1 ns samples
     const p = analyseCapture(await parseCapture(chunked(text))).pairing!
     expect(p.inverting).toBe(false)
     expect(p.tPLH!.count + p.tPHL!.count).toBeGreaterThan(10)
