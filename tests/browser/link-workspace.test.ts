@@ -108,7 +108,8 @@ describe('the engineer fixes the telemetry link', () => {
     const { page } = browser
     await page.context().clearCookies()
     await signIn(page, fx.engineer)
-    await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Projects')
+    await page.getByRole('heading', { level: 1, name: 'Projects' }).waitFor()
+    await page.getByRole('link', { name: /PX-7 pump inverter/ }).first().waitFor()
     await screenshot(page, 'team-projects')
 
     await page.getByRole('link', { name: /PX-7 pump inverter/ }).first().click()
@@ -133,7 +134,7 @@ describe('the engineer fixes the telemetry link', () => {
     // a typed field problem shows beside the field, from the shared schema
     const baud = page.getByLabel('Baud', { exact: true })
     await baud.fill('38.4 kq')
-    await expect(page.getByText("unknown unit 'q'").first().isVisible()).resolves.toBe(true)
+    await page.getByText("unknown unit 'kq'").first().waitFor()
     await baud.fill('38.4k')
 
     // the pull-up sweep finds the row; apply it to the stage
@@ -179,11 +180,12 @@ describe('the engineer fixes the telemetry link', () => {
   it('lists the part library and the members', async () => {
     const { page } = browser
     await page.goto(`${baseURL}/teams/${fx.teamId}/parts`, { waitUntil: 'networkidle' })
-    await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Part library')
+    await page.getByRole('heading', { level: 1, name: 'Part library' }).waitFor()
     await page.getByText('PTC-20 generic phototransistor coupler').first().waitFor()
     await screenshot(page, 'part-library')
     await page.goto(`${baseURL}/teams/${fx.teamId}/members`, { waitUntil: 'networkidle' })
-    await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toBe('Members')
+    await page.getByRole('heading', { level: 1, name: 'Members' }).waitFor()
+    await page.getByText(fx.engineer).first().waitFor()
     await screenshot(page, 'members')
   })
 })
