@@ -5,5 +5,6 @@ export default defineConfig({
   test: {
     include: ['tests/unit/**/*.test.ts'],
     environment: 'node',
+    setupFiles: ['tests/setup/fast-check.ts'],
   },
 })

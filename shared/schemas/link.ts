@@ -138,8 +138,8 @@ export const PhototransistorStage = z
         endOfLife: num(0.01, 1, 'CTR end-of-life derating').default(1),
       })
       .default({ temperature: 1, endOfLife: 1 }),
-    /** output supply, volts */
-    vcc: PositiveVolts,
+    /** output supply, volts (a coupler output below half a volt switches nothing) */
+    vcc: num(0.5, 1000, 'output supply vcc (V)'),
     /** collector (or emitter) load resistor, ohms */
     rl: Ohms,
     /** collector-emitter saturation voltage, volts */

@@ -212,7 +212,7 @@ describe('switching times from characterisation points', () => {
           vf: fc.double({ min: 0, max: 3, noNaN: true }),
           rLed: fc.double({ min: 1, max: 1e5, noNaN: true }),
           ctrMin: fc.double({ min: 0.001, max: 5, noNaN: true }),
-          vcc: fc.double({ min: 0, max: 30, noNaN: true }),
+          vcc: fc.double({ min: 0.5, max: 30, noNaN: true }), // the schema's range
           rl: fc.double({ min: 1, max: 1e6, noNaN: true }),
           vceSat: fc.double({ min: 0, max: 1, noNaN: true }),
           loadCap: fc.double({ min: 0, max: 1e-8, noNaN: true }),
