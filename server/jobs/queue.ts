@@ -3,16 +3,33 @@
  * One PgBoss per process, started by server/plugins/jobs.ts.
  */
 import PgBoss from 'pg-boss'
+import type { QueuedMail } from '../utils/mail'
 
 /** Extract the edges of one uploaded capture: data { captureId }. */
 export const CAPTURE_EXTRACT = 'capture-extract'
 
+/** Deliver one rendered e-mail: data QueuedMail (server/utils/mail.ts). */
+export const MAIL_SEND = 'mail-send'
+
 let boss: PgBoss | undefined
+/** Resolves once the queue has started (mail sent during boot waits for it). */
+let started: Promise<PgBoss> | undefined
+let markStarted: ((b: PgBoss) => void) | undefined
+const whenStarted = () => (started ??= new Promise<PgBoss>((resolve) => (markStarted = resolve)))
+
+/** Mail delivery: retried with exponential backoff (2 s, 4 s, 8 s ... capped by pg-boss) for about a day. */
+const MAIL_RETRY = { retryLimit: 25, retryDelay: 2, retryBackoff: true, expireInSeconds: 60 } as const
 
 /** Attempts of one extraction: the first and RETRY_LIMIT retries. */
 const RETRY_LIMIT = 2
 
-export async function startQueue(connectionString: string, handlers: { extractCapture: (captureId: number, opts: { lastAttempt: boolean }) => Promise<void> }): Promise<PgBoss> {
+export async function startQueue(
+  connectionString: string,
+  handlers: {
+    extractCapture: (captureId: number, opts: { lastAttempt: boolean }) => Promise<void>
+    deliverMail: (mail: QueuedMail) => Promise<void>
+  },
+): Promise<PgBoss> {
   const b = new PgBoss({ connectionString, max: 4, application_name: 'bitslack-jobs' })
   b.on('error', (err) => console.error('[bitslack] job queue:', err instanceof Error ? err.message : err))
   await b.start()
@@ -22,8 +39,20 @@ export async function startQueue(connectionString: string, handlers: { extractCa
   await b.work<{ captureId: number }>(CAPTURE_EXTRACT, { batchSize: 1, pollingIntervalSeconds: 1, includeMetadata: true }, async ([job]) => {
     if (job) await handlers.extractCapture(job.data.captureId, { lastAttempt: job.retryCount >= RETRY_LIMIT })
   })
+  await b.createQueue(MAIL_SEND, { name: MAIL_SEND, policy: 'standard', ...MAIL_RETRY })
+  await b.work<QueuedMail>(MAIL_SEND, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
+    if (job) await handlers.deliverMail(job.data)
+  })
   boss = b
+  whenStarted()
+  markStarted?.(b)
   return b
+}
+
+/** Queue one rendered mail for delivery (waits for the queue during boot). */
+export async function enqueueMail(mail: QueuedMail): Promise<void> {
+  const b = boss ?? (await whenStarted())
+  await b.send(MAIL_SEND, mail, MAIL_RETRY)
 }
 
 /**

@@ -1,6 +1,6 @@
 /**
  * Object storage and the job queue at boot: create the bucket if it is missing, start
- * pg-boss with the capture extraction worker, queue again any capture a crash left
+ * pg-boss with the capture extraction and mail delivery workers, queue again any capture a crash left
  * queued (at start and every minute), and stop the queue gracefully on close. Fails
  * fast like the database plugin.
  */
@@ -9,11 +9,12 @@ import { requeueStrandedCaptures } from '../domain/captures'
 import { extractCapture } from '../jobs/capture-extract'
 import { startQueue, stopQueue } from '../jobs/queue'
 import { useStorage } from '../storage/s3'
+import { deliverMail } from '../utils/mail'
 
 export default defineNitroPlugin((nitroApp) => {
   const ready = (async () => {
     await useStorage().ensureBucket()
-    await startQueue(useRuntimeConfig().databaseUrl || databaseUrl(), { extractCapture })
+    await startQueue(useRuntimeConfig().databaseUrl || databaseUrl(), { extractCapture, deliverMail })
     await requeueStrandedCaptures()
   })()
   const sweep = setInterval(() => {

@@ -74,13 +74,6 @@ export class RateLimitedError extends DomainError {
   }
 }
 
-/** 502: a mail could not be handed to the SMTP server. */
-export class MailDeliveryError extends DomainError {
-  constructor(message = 'the e-mail could not be sent; try again later') {
-    super(message)
-  }
-}
-
 function describeIssue(issue: Issue): string {
   const field = issue.path.length ? issue.path.join('.') : 'body'
   return `${field}: ${issue.message}`
@@ -103,7 +96,6 @@ export function toHttpError(err: unknown, event?: H3Event) {
     if (event) setResponseHeader(event, 'Retry-After', err.retryAfter)
     return createError({ statusCode: 429, statusMessage: err.message, data: { retryAfter: err.retryAfter } })
   }
-  if (err instanceof MailDeliveryError) return createError({ statusCode: 502, statusMessage: err.message })
   if (isDatabaseOutage(err)) {
     if (event) setResponseHeader(event, 'Retry-After', 5)
     return createError({ statusCode: 503, statusMessage: 'the database is unavailable; try again shortly' })

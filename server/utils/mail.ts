@@ -4,7 +4,7 @@
  * Every mail is multipart: plain text and HTML, with the product's name.
  */
 import nodemailer, { type Transporter } from 'nodemailer'
-import { MailDeliveryError } from './errors'
+import { enqueueMail } from '../jobs/queue'
 
 let transport: Transporter | undefined
 
@@ -53,14 +53,31 @@ ${m.footnote ? `<p style="font-size: 13px; color: #52606d">${escapeHtml(m.footno
   return { text, html }
 }
 
-/** Send one mail; a refused or unreachable SMTP server is a MailDeliveryError (502). */
+/** A rendered mail as it waits in the job queue. */
+export interface QueuedMail {
+  to: string
+  subject: string
+  text: string
+  html: string
+}
+
+/**
+ * Send one mail: rendered now, delivered by the PostgreSQL-backed job queue
+ * (server/jobs/queue.ts), so the action that sends it succeeds even while the SMTP
+ * server is down; delivery is retried with exponential backoff until it goes through.
+ */
 export async function sendMail(m: MailContent): Promise<void> {
-  const { transport, from } = useTransport()
   const { text, html } = renderMail(m)
+  await enqueueMail({ to: m.to, subject: m.subject, text, html })
+}
+
+/** Hand one queued mail to the SMTP server (the queue's worker); a failure throws so the job is retried. */
+export async function deliverMail(mail: QueuedMail): Promise<void> {
+  const { transport, from } = useTransport()
   try {
-    await transport.sendMail({ from, to: m.to, subject: m.subject, text, html })
+    await transport.sendMail({ from, ...mail })
   } catch (err) {
-    console.error('[bitslack] mail to', m.to, 'failed:', err instanceof Error ? err.message : err)
-    throw new MailDeliveryError()
+    console.error('[bitslack] mail to', mail.to, 'not delivered yet (will retry):', err instanceof Error ? err.message : err)
+    throw err
   }
 }

@@ -4,6 +4,7 @@
  * so the global setup also serves the array on a loopback HTTP endpoint:
  *   GET    /mails?to=ADDR&subject=TEXT&count=N&wait=MS   matching mails (waits up to MS for N of them, default 1)
  *   DELETE /mails                                forget every mail
+ *   POST   /smtp/down, /smtp/up                  refuse (421, try later) or accept new mail
  * Waiting is event-driven (resolved when a mail arrives), not polling.
  */
 import { EventEmitter } from 'node:events'
@@ -39,10 +40,15 @@ export async function startMailFake(): Promise<MailFake> {
   const arrivals = new EventEmitter()
   arrivals.setMaxListeners(100)
 
+  let down = false
   const smtp = new SMTPServer({
     authOptional: true,
     disabledCommands: ['STARTTLS'],
     logger: false,
+    onMailFrom(_address, _session, callback) {
+      if (!down) return callback()
+      callback(Object.assign(new Error('mail service not available, try again later'), { responseCode: 421 }))
+    },
     onData(stream, session, callback) {
       simpleParser(stream)
         .then((parsed) => {
@@ -69,6 +75,11 @@ export async function startMailFake(): Promise<MailFake> {
 
   const http: Server = createServer((req, res) => {
     const url = new URL(req.url ?? '/', 'http://127.0.0.1')
+    if (req.method === 'POST' && (url.pathname === '/smtp/down' || url.pathname === '/smtp/up')) {
+      down = url.pathname === '/smtp/down'
+      res.writeHead(204).end()
+      return
+    }
     if (url.pathname !== '/mails') {
       res.writeHead(404).end()
       return

@@ -36,3 +36,9 @@ export function linkIn(mail: FakeMail, path: string): URL {
   if (!found) throw new Error(`no ${path} link in the mail "${mail.subject}"`)
   return found
 }
+
+/** Take the SMTP fake down (it answers 421, try later) or bring it back. */
+export async function setMailService(state: 'down' | 'up'): Promise<void> {
+  const res = await fetch(`${mailURL()}/smtp/${state}`, { method: 'POST' })
+  if (res.status !== 204) throw new Error(`the mail fake did not go ${state}`)
+}
