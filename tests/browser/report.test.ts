@@ -1,0 +1,118 @@
+/**
+ * The margin report journey in Chromium: the engineer freezes the telemetry link from the
+ * link page and submits the revision to the reviewer; the reviewer finds it in the review
+ * queue, comments on one bit and signs it off; the page prints without navigation.
+ * Screenshots go to tests/.artifacts/screenshots.
+ */
+import { execFileSync } from 'node:child_process'
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import path from 'node:path'
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
+import type { Page } from 'playwright-core'
+import { formatUi } from '../../shared/utils/units'
+import { buildWorld, type World } from '../factories/world'
+import { FACTORY_PASSWORD } from '../factories/users'
+import { buildLink, buildLinkSpec, buildProject } from '../factories/workspace'
+import { waitForMail } from '../support/mail'
+import { openBrowser, screenshot, type BrowserSession } from '../support/browser'
+
+const baseURL = inject('baseURL')
+let world: World
+let linkId: number
+let projectId: number
+let browser: BrowserSession
+const dir = mkdtempSync(path.join(tmpdir(), 'bitslack-print-'))
+
+async function signIn(page: Page, email: string) {
+  await page.context().clearCookies()
+  await page.goto(`${baseURL}/sign-in`)
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel('Password').fill(FACTORY_PASSWORD)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+  await page.waitForURL(/\/teams\/\d+/)
+}
+
+beforeAll(async () => {
+  world = await buildWorld()
+  projectId = (await buildProject(world.clients.engineer, world.teamId, 'PX-7 test board')).id
+  linkId = (await buildLink(world.clients.engineer, projectId, buildLinkSpec('telemetry'))).id
+  browser = await openBrowser()
+}, 120_000)
+afterAll(async () => {
+  await browser?.close()
+  rmSync(dir, { recursive: true, force: true })
+})
+
+describe('margin report in the browser', () => {
+  it('freeze -> submit -> review queue -> comment on a bit -> sign off; printable', async () => {
+    const page = browser.page
+    const consoleErrors: string[] = []
+    page.on('console', (m) => m.type() === 'error' && consoleErrors.push(m.text()))
+    await signIn(page, world.users.engineer.email)
+    await page.goto(`${baseURL}/links/${linkId}`)
+    const revisions = page.getByTestId('link-revisions')
+    await revisions.waitFor()
+    await revisions.getByRole('button', { name: 'Freeze as revision' }).click()
+    await page.waitForURL(/\/reports\/\d+$/)
+    const reportId = Number(/\/reports\/(\d+)$/.exec(page.url())![1])
+    const stored = (await world.clients.viewer.get(`/api/reports/${reportId}`)).data
+
+    await expect(page.getByRole('heading', { level: 1 }).textContent()).resolves.toContain('Gate-driver telemetry UART')
+    await expect(page.getByTestId('report-state').first().textContent()).resolves.toContain('draft')
+    await expect(page.getByTestId('worst-margin').textContent()).resolves.toContain(formatUi(stored.result.uart.worstMarginUi))
+    await page.getByLabel('Submit to reviewer').selectOption(String(world.users.reviewer.id))
+    await page.getByRole('button', { name: 'Submit for review' }).click()
+    await page.getByText('Waiting for Test reviewer').waitFor()
+    await waitForMail(world.users.reviewer.email, { subject: 'Margin report to review' })
+
+    // the reviewer
+    await signIn(page, world.users.reviewer.email)
+    await page.getByTestId('review-queue-link').click()
+    await page.waitForURL(/\/review-queue$/)
+    await page.getByRole('link', { name: 'Gate-driver telemetry UART' }).first().waitFor()
+    await screenshot(page, 'review-queue')
+    await page.goto(`${baseURL}/reports/${reportId}`)
+    await page.getByRole('button', { name: 'Comment on bit d0' }).click()
+    await page.locator('#comment-body').fill('d0 late side: check the edge on the bench.')
+    await page.getByRole('button', { name: 'Add comment' }).click()
+    await page.getByTestId('comments').getByText('d0 late side: check the edge on the bench.').waitFor()
+    await expect(page.getByTestId('comments').textContent()).resolves.toContain('Bit d0 of telemetry')
+    await page.getByRole('button', { name: /Sign off r\d+/ }).click()
+    await page.getByTestId('sign-off').getByText('signed off').first().waitFor()
+    await waitForMail(world.users.engineer.email, { subject: 'signed off' })
+    await page.getByRole('button', { name: 'Recompute with today’s engine' }).click()
+    await expect(page.getByTestId('recompute').textContent()).resolves.toContain('Same answer')
+    await page.evaluate(() => document.fonts.ready)
+    await screenshot(page, 'report')
+
+    // print: no navigation, no buttons, the report's sections and the caution
+    await page.emulateMedia({ media: 'print' })
+    await expect(page.locator('body > div > div > header').first().isVisible()).resolves.toBe(false)
+    await expect(page.getByRole('button', { name: 'Add comment' }).isVisible()).resolves.toBe(false)
+    await screenshot(page, 'report-print')
+    const pdf = await page.pdf({ format: 'A4', printBackground: true })
+    const file = path.join(dir, 'print.pdf')
+    writeFileSync(file, pdf)
+    const info = execFileSync('pdfinfo', [file], { encoding: 'utf8' })
+    expect(info).toMatch(/A4/)
+    expect(Number(/Pages:\s+(\d+)/.exec(info)![1])).toBeGreaterThanOrEqual(4)
+    const text = execFileSync('pdftotext', [file, '-'], { encoding: 'utf8' })
+    expect(text).toContain('Stages and settings')
+    expect(text).toContain('Per-bit margins')
+    expect(text).toContain('Timing only.')
+    expect(text).not.toContain('Sign out')
+    expect(text).not.toContain('Add comment')
+    await page.emulateMedia({ media: 'screen' })
+    expect(consoleErrors.filter((e) => /content security policy/i.test(e))).toEqual([])
+  })
+
+  it('the project page shows the link’s latest revision state', async () => {
+    const page = browser.page
+    await page.goto(`${baseURL}/projects/${projectId}`)
+    const row = page.getByRole('row', { name: /Gate-driver telemetry UART/ })
+    await row.waitFor()
+    await expect(row.textContent()).resolves.toMatch(/r1\s*.*signed off/)
+    await screenshot(page, 'project-latest-report')
+  })
+})
