@@ -149,6 +149,8 @@ describe('the engineer fixes the telemetry link', () => {
     expect(await page.locator('[data-testid^="bit-"][data-state="broken"]').count()).toBe(0)
     await expect(page.getByTestId('timeline-summary').textContent()).resolves.toMatch(/healthy|thin/)
     await page.evaluate(() => window.scrollTo(0, 0))
+    // the sweep's wide table scrolls inside its card: the page itself never grows sideways
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(1366)
     await screenshot(page, 'link-telemetry-fixed')
 
     // explicit save; the project page then shows the new verdict
