@@ -1,6 +1,6 @@
 /**
- * Secrets come only from the environment. In production (BITSLACK_ENV=production, the
- * default for a built server run without it) every required setting must be present,
+ * Secrets come only from the environment. In production (BITSLACK_ENV=production, also
+ * when BITSLACK_ENV is unset) every required setting must be present,
  * or the server refuses to start with a message that names each missing variable.
  * `npm start` runs the demo (BITSLACK_ENV=demo) with local fakes; `npm test` runs "test".
  */
@@ -17,7 +17,7 @@ const PRODUCTION_REQUIRED: { name: string; check?: (v: string) => boolean; hint?
 ]
 
 export default defineNitroPlugin(() => {
-  if (bitslackEnvironment() !== 'production') return
+  if (appEnv() !== 'production') return
   const problems = PRODUCTION_REQUIRED.filter(({ name, check }) => {
     const v = process.env[name]
     return !v || (check ? !check(v) : false)
