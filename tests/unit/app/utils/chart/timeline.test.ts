@@ -1,0 +1,91 @@
+import { describe, expect, it } from 'vitest'
+import { bitState, edgePoints, frameLabels, frameLevels, lanePoints, uartTimelineGeometry, type LaneInput } from '../../../../../app/utils/chart/timeline'
+
+const ideal: LaneInput = { name: 'tx', inverted: false, edges: { rise: 0, fall: 0, tr: 0, tf: 0, riseShape: 'ramp', fallShape: 'ramp' } }
+
+describe('frameLevels and frameLabels', () => {
+  it('put start, data LSB first, parity and stop bits in order', () => {
+    expect(frameLevels(0x01, 8, 'none', 1)).toEqual([0, 1, 0, 0, 0, 0, 0, 0, 0, 1])
+    expect(frameLevels(0x03, 8, 'even', 2)).toEqual([0, 1, 1, 0, 0, 0, 0, 0, 0, 0, 1, 1])
+    expect(frameLevels(0x01, 7, 'odd', 1)).toEqual([0, 1, 0, 0, 0, 0, 0, 0, 0, 1])
+    expect(frameLevels(0, 5, 'mark', 1.5)).toEqual([0, 0, 0, 0, 0, 0, 1, 1, 1])
+    expect(frameLabels(8, 'even', 1)).toEqual(['start', 'd0', 'd1', 'd2', 'd3', 'd4', 'd5', 'd6', 'd7', 'parity', 'stop'])
+  })
+})
+
+describe('edgePoints', () => {
+  it('draws a ramp through 50 % at its centre spanning tr / 0.8', () => {
+    const p = edgePoints(10, true, 8, 'ramp', 100)
+    expect(p).toEqual([[5, 0], [15, 1]])
+  })
+  it('draws an RC edge that crosses 50 % at its centre and 90 % at 10 % + tr', () => {
+    const tr = 2.197
+    const p = edgePoints(0, true, tr, 'exponential', 100)
+    const at = (t: number) => {
+      const i = p.findIndex((q) => q[0] >= t)
+      const [t0, v0] = p[i - 1]!
+      const [t1, v1] = p[i]!
+      return v0 + ((v1 - v0) * (t - t0)) / (t1 - t0)
+    }
+    expect(at(0)).toBeCloseTo(0.5, 1)
+    expect(p[0]![1]).toBe(0)
+    expect(p.at(-1)![1]).toBeGreaterThan(0.99)
+  })
+  it('stops an edge where the next one begins', () => {
+    const p = edgePoints(0, false, 10, 'ramp', 2)
+    expect(p.at(-1)![0]).toBe(2)
+    expect(p.at(-1)![1]).toBeGreaterThan(0)
+  })
+})
+
+describe('lanePoints', () => {
+  it('moves rising and falling edges by their own delays and inverts the level', () => {
+    const lane: LaneInput = { name: 'rx', inverted: true, edges: { rise: 3, fall: 1, tr: 0, tf: 0, riseShape: 'ramp', fallShape: 'ramp' } }
+    const pts = lanePoints([0, 1, 1], 10, lane, -5, 40)
+    // idle high logically = low physically; the start bit (logical fall) is a physical rise at 0 + 3
+    expect(pts[0]).toEqual([-5, 0])
+    expect(pts).toContainEqual([3, 1])
+    // the d0 = 1 boundary at 10 is a physical fall, delayed by 1
+    expect(pts).toContainEqual([11, 0])
+    expect(pts.every((p, i) => i === 0 || p[0] >= pts[i - 1]![0])).toBe(true)
+  })
+})
+
+describe('uartTimelineGeometry', () => {
+  const T = 1e-4
+  const bits = [
+    { index: 0, label: 'start', marginUi: 0.3, earlyMargin: 3e-5, lateMargin: 3e-5, samples: { earliest: 5e-5, latest: 6e-5 }, validFrom: 2e-5, validTo: 9e-5 },
+    { index: 1, label: 'd0', marginUi: -0.2, earlyMargin: 1e-5, lateMargin: -2e-5, samples: { earliest: 1.5e-4, latest: 1.6e-4 }, validFrom: 1.4e-4, validTo: 1.4e-4 + 0 },
+  ]
+  const g = uartTimelineGeometry({ bitTime: T, frameBits: 3, levels: [0, 1, 1], backToBack: true, lanes: [ideal, ideal], sync: 0, bits, requiredUi: 0.1, width: 800 })
+
+  it('lays out one lane per input with a path and the frame cells inside the plot', () => {
+    expect(g.lanes).toHaveLength(2)
+    expect(g.lanes[0]!.path.startsWith('M')).toBe(true)
+    expect(g.lanes[1]!.y).toBeGreaterThan(g.lanes[0]!.y)
+    for (const c of g.cells) {
+      expect(c.x0).toBeGreaterThanOrEqual(g.plot.x0)
+      expect(c.x1).toBeLessThanOrEqual(g.plot.x1)
+    }
+    expect(g.height).toBeGreaterThan(g.windowRow)
+  })
+
+  it('marks a bit broken and hatches where its samples fall outside the window', () => {
+    expect(g.windows.map((w) => w.state)).toEqual(['healthy', 'broken'])
+    expect(g.windows[0]!.overlaps).toEqual([])
+    expect(g.windows[1]!.overlaps).toHaveLength(1)
+    expect(g.windows[1]!.s1).toBeGreaterThan(g.windows[1]!.x1)
+  })
+
+  it('zooms to one bit: the domain spans a little more than that bit', () => {
+    const z = uartTimelineGeometry({ bitTime: T, frameBits: 3, levels: [0, 1, 1], backToBack: true, lanes: [ideal], sync: 0, bits, requiredUi: 0.1, width: 800, zoomBit: 1 })
+    expect(z.domain[0]).toBeCloseTo(0.3 * T, 12)
+    expect(z.domain[1]).toBeCloseTo(2.7 * T, 12)
+  })
+
+  it('classifies margins against zero and the required margin', () => {
+    expect(bitState(-0.01, 0.1)).toBe('broken')
+    expect(bitState(0.05, 0.1)).toBe('thin')
+    expect(bitState(0.1, 0.1)).toBe('healthy')
+  })
+})

@@ -1,0 +1,27 @@
+import { describe, expect, it } from 'vitest'
+import { compareValues, csvCell, toCsv } from '../../../../app/utils/csv'
+import { diffSpecs } from '../../../../app/utils/specDiff'
+
+describe('CSV export', () => {
+  it('quotes what needs quoting and writes CRLF lines', () => {
+    expect(csvCell('a,b')).toBe('"a,b"')
+    expect(csvCell('say "hi"')).toBe('"say ""hi"""')
+    expect(csvCell(null)).toBe('')
+    expect(csvCell(Number.NaN)).toBe('')
+    expect(toCsv(['baud', 'margin (UI)'], [[38400, -0.485]])).toBe('baud,margin (UI)\r\n38400,-0.485\r\n')
+  })
+  it('sorts numbers numerically with missing values last', () => {
+    expect([3, null, 10, 2].sort(compareValues)).toEqual([2, 3, 10, null])
+    expect(['d10', 'd2'].sort(compareValues)).toEqual(['d2', 'd10'])
+  })
+})
+
+describe('diffSpecs', () => {
+  it('lists every leaf that differs, with both values', () => {
+    const d = diffSpecs({ a: 1, b: { c: [1, 2] } }, { a: 1, b: { c: [1, 3] }, e: 'x' })
+    expect(d).toEqual([
+      { path: 'b.c.1', mine: 2, theirs: 3 },
+      { path: 'e', mine: undefined, theirs: 'x' },
+    ])
+  })
+})
