@@ -7,7 +7,7 @@
  * state moved on: a ConflictError (409). Mails leave after the commit.
  */
 import { Op, type Transaction } from 'sequelize'
-import type { CommentTarget, FreezeBody } from '../../shared/schemas/report'
+import type { CommentTarget, FreezeBody, ReportState } from '../../shared/schemas/report'
 import { REPORT_STATE_LABEL, revisionLabel } from '../../shared/schemas/report'
 import type { Role } from '../../shared/schemas/roles'
 import { Link, Membership, Project, ReportComment, ReportEvent, ReportRevision, User } from '../db/models'
@@ -105,7 +105,7 @@ async function lockForStep(id: number, transaction: Transaction, version: number
 }
 
 function stateConflict(rev: ReportRevision, wanted: string): ConflictError {
-  return new ConflictError(`this revision is ${REPORT_STATE_LABEL[rev.state]}, not ${wanted}`, { currentVersion: rev.version, state: rev.state })
+  return new ConflictError(`this revision is ${REPORT_STATE_LABEL[rev.state as ReportState]}, not ${wanted}`, { currentVersion: rev.version, state: rev.state })
 }
 
 /** Submit a draft to a reviewer (or admin) of the team other than the author; mails the reviewer. */

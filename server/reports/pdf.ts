@@ -84,7 +84,8 @@ interface Column {
 }
 
 type Doc = InstanceType<typeof PDFDocument>
-const MONO_FEATURES = { liga: false, calt: false } as unknown as string[]
+// fontkit takes a feature map; the typings only know the array form
+const MONO_FEATURES = { liga: false, calt: false } as unknown as PDFKit.Mixins.OpenTypeFeatures[]
 
 /** Build the PDF of one revision. */
 export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts, paper: PaperSize = 'A4'): Promise<Buffer> {
