@@ -56,6 +56,15 @@ if ! npx nuxt build >".data/test-build-$SLOT.log" 2>&1; then
   exit 1
 fi
 
+# The type check counts as one test of the closing line.
+log "type-checking (nuxt typecheck)"
+if npx nuxt typecheck >".data/typecheck-$SLOT.log" 2>&1; then
+  typecheck=passed
+else
+  typecheck=failed
+  grep -E "error TS" ".data/typecheck-$SLOT.log" | head -n 40 >&2
+fi
+
 mkdir -p tests/.artifacts
 results=tests/.artifacts/vitest-$SLOT.json
 rm -f "$results"
@@ -64,11 +73,13 @@ status=$?
 
 node -e '
 const fs = require("fs")
-const f = process.argv[1]
-if (!fs.existsSync(f)) { console.log("0 passed, 1 failed"); process.exit(0) }
+const [f, typecheck] = process.argv.slice(1)
+const tc = typecheck === "passed" ? [1, 0] : [0, 1]
+if (!fs.existsSync(f)) { console.log(`${tc[0]} passed, ${tc[1] + 1} failed`); process.exit(0) }
 const r = JSON.parse(fs.readFileSync(f, "utf8"))
 // a file that fails to load has no failed test of its own: count it as a failure
 const brokenFiles = r.testResults.filter((s) => s.status === "failed" && s.assertionResults.every((a) => a.status !== "failed")).length
-console.log(`${r.numPassedTests} passed, ${r.numFailedTests + brokenFiles} failed`)
-' "$results"
+console.log(`${r.numPassedTests + tc[0]} passed, ${r.numFailedTests + brokenFiles + tc[1]} failed`)
+' "$results" "$typecheck"
+[ "$typecheck" = passed ] || status=1
 exit $status
