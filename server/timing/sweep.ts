@@ -13,7 +13,7 @@ import { EngineInputError } from './errors'
 import { nearestNotAbove, seriesValues, type SeriesName } from './eseries'
 import { ctrDeratingOf, phototransistorModel, type PhototransistorOperating } from './phototransistor'
 import type { StageEdgeModel, Warning } from './types'
-import { frameLayout, maxBaud as maxBaudSearch, worstMarginUi, type ClockErrors, type Distortion } from './uart'
+import { fixedClockCases, frameLayout, marginAndMaxBaud, type ClockErrors, type Distortion, type MarginAndMaxBaud } from './uart'
 
 export interface PullupSweepOptions {
   /** E series for both RL and the LED resistor */
@@ -133,6 +133,9 @@ export function sweepPullup(link: Link, channelId: string, stageIndex: number, o
   const others = byChannel.filter((_, k) => k !== direction)
   const layout = frameLayout(swept.frame.dataBits, swept.frame.parity, swept.frame.stopBits, swept.frame.backToBack)
   const errors: ClockErrors = { tx: swept.clocks.tx, rx: swept.clocks.rx }
+  // the sampler and the clocks are fixed over the sweep: each case's clock part once
+  const cases = fixedClockCases(layout, swept.sampler, errors)
+  const own: MarginAndMaxBaud = { worstUi: 0, maxBaud: null }
   const receiverInvert = channel.receiver.invert ?? false
 
   /** The link's margin, maximum baud and verdict with the swept channel's stages replaced. */
@@ -143,11 +146,10 @@ export function sweepPullup(link: Link, channelId: string, stageIndex: number, o
     const functional = chain.reachable && !inverted && !unsaturated
     const pwd = receiverInvert ? { min: -chain.pwd.max, max: -chain.pwd.min } : chain.pwd
     const d: Distortion = { pwd, jitterPeak: chain.jitterPeak, jitterRms: chain.jitterRms }
-    const own = worstMarginUi(layout, swept.sampler, d, errors, targetBaud)
-    const ownMax = maxBaudSearch(layout, swept.sampler, d, errors, requiredMarginUi, swept.maxBaudCap).maxBaud
-    let margin = own
-    let max: number | null = ownMax
-    const verdicts: Verdict[] = [!functional ? 'fail' : own >= requiredMarginUi ? 'pass' : own >= 0 ? 'marginal' : 'fail']
+    marginAndMaxBaud(cases, d, targetBaud, requiredMarginUi, swept.maxBaudCap, own)
+    let margin = own.worstUi
+    let max: number | null = own.maxBaud
+    const verdicts: Verdict[] = [!functional ? 'fail' : own.worstUi >= requiredMarginUi ? 'pass' : own.worstUi >= 0 ? 'marginal' : 'fail']
     for (const o of others) {
       margin = Math.min(margin, o.worstMarginUi)
       max = max === null || o.maxBaud === null ? null : Math.min(max, o.maxBaud)
