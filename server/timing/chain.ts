@@ -66,12 +66,37 @@ function offsetCorners(direction: Direction, edge: EdgeState, xs: readonly numbe
   let min = Infinity
   let max = -Infinity
   for (const x of xs)
-    for (const t of [edge.transition.typ, edge.transition.max]) {
-      const o = thresholdOffset(direction, edge.shape, t, x)
+    for (let k = 0; k < 2; k++) {
+      const o = thresholdOffset(direction, edge.shape, k === 0 ? edge.transition.typ : edge.transition.max, x)
       if (o < min) min = o
       if (o > max) max = o
     }
   return { min, typ: thresholdOffset(direction, edge.shape, edge.transition.typ, xTyp), max }
+}
+
+/**
+ * A stage's output edge in direction `o` and the threshold offset of its own input: the
+ * input edge (the other direction when the stage inverts) plus the offset at the stage's
+ * input threshold plus tPLH or tPHL; a pass-through direction carries the input edge on.
+ */
+function stageOutput(model: StageEdgeModel, o: Direction, up: EdgeState, down: EdgeState, xRise: number, xFall: number): { edge: EdgeState; offset: Corners } {
+  const delay = o === 'rise' ? model.tplh : model.tphl
+  const pass = !model.inverting && model.passThrough?.[o]
+  const inDir = model.inverting ? flipDir(o) : o
+  const input = inDir === 'rise' ? up : down
+  if (pass) return { edge: { ...input, delay: add(input.delay, delay) }, offset: { min: 0, typ: 0, max: 0 } }
+  const x = inDir === 'rise' ? xRise : xFall
+  const offset = offsetCorners(inDir, input, [x], x)
+  return {
+    edge: {
+      delay: add(add(input.delay, offset), delay),
+      transition: o === 'rise' ? { ...model.tr } : { ...model.tf },
+      shape: o === 'rise' ? model.riseShape : model.fallShape,
+      vLow: model.vLow,
+      vHigh: model.vHigh,
+    },
+    offset,
+  }
 }
 
 /** A threshold as its [low, high] range and typical value, volts. */
@@ -99,13 +124,14 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
   let jitterPeak = 0
   let partSkew = 0
 
-  channel.stages.forEach((stage, i) => {
+  for (let i = 0; i < channel.stages.length; i++) {
+    const stage = channel.stages[i]!
     const { model, warnings: stageWarnings, operating } = reduceStage(stage, rx)
-    for (const w of stageWarnings) warnings.push({ ...w, channel: channel.id, stage: i })
+    // a stage's own warnings carry code and message; the chain adds where they come from
+    for (const w of stageWarnings) warnings.push({ code: w.code, message: w.message, channel: channel.id, stage: i })
 
     const xRise = stage.inputThreshold?.rise ?? 0.5
     const xFall = stage.inputThreshold?.fall ?? 0.5
-    const inputEdge = (d: Direction) => (d === 'rise' ? up : down)
 
     // Asymmetry of the stage's own delays, tPLH - tPHL, tightened by PWD max.
     let asymLo = model.tplh.min - model.tphl.max
@@ -129,27 +155,8 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
     }
     const asymTyp = Math.min(asymHi, Math.max(asymLo, model.tplh.typ - model.tphl.typ))
 
-    const out = (o: Direction): { edge: EdgeState; offset: Corners } => {
-      const delay = o === 'rise' ? model.tplh : model.tphl
-      const pass = !model.inverting && model.passThrough?.[o]
-      const input = inputEdge(model.inverting ? flipDir(o) : o)
-      if (pass) return { edge: { ...input, delay: add(input.delay, delay) }, offset: { min: 0, typ: 0, max: 0 } }
-      const inDir = model.inverting ? flipDir(o) : o
-      const x = inDir === 'rise' ? xRise : xFall
-      const offset = offsetCorners(inDir, input, [x], x)
-      return {
-        edge: {
-          delay: add(add(input.delay, offset), delay),
-          transition: o === 'rise' ? { ...model.tr } : { ...model.tf },
-          shape: o === 'rise' ? model.riseShape : model.fallShape,
-          vLow: model.vLow,
-          vHigh: model.vHigh,
-        },
-        offset,
-      }
-    }
-    const r = out('rise')
-    const f = out('fall')
+    const r = stageOutput(model, 'rise', up, down, xRise, xFall)
+    const f = stageOutput(model, 'fall', up, down, xRise, xFall)
     stages.push({
       index: i,
       name: stage.name,
@@ -169,7 +176,7 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
     jitterVar += model.jitterRms ** 2
     jitterPeak += model.jitterPeak
     partSkew += model.partSkew
-  })
+  }
 
   // Signs: flipped when an odd number of inverting stages follows.
   let after = 0

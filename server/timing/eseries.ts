@@ -81,13 +81,18 @@ function bracket(value: number, series: SeriesName): { below: number; above: num
   const lo = value * (1 - SAME)
   let below = 0
   let above = Infinity
-  // the decade of the value and its neighbours cover rounding of log10 and the decade wrap
-  for (let k = e - 1; k <= e + 1; k++) {
+  // The decade of the value and its neighbours cover rounding of log10 and the decade
+  // wrap. Their values ascend, so the first one not below `lo` is `above`, and no later
+  // one can still be within `hi` (standard values lie more than 1 % apart).
+  for (let k = e - 1; k <= e + 1 && above === Infinity; k++) {
     const f = 10 ** Math.abs(k)
     for (const mant of m) {
       const v = k >= 0 ? mant * f : mant / f
-      if (v <= hi && v > below) below = v
-      if (v >= lo && v < above) above = v
+      if (v <= hi) below = v
+      if (v >= lo) {
+        above = v
+        break
+      }
     }
   }
   return { below, above }

@@ -260,26 +260,20 @@ export function phototransistorModel(stage: PhototransistorStage): {
   // Collector current in service: the load limits it to icRequired once saturated; a
   // part at the derated minimum CTR gives icAvailable. Power worst case over that range.
   const icLow = Math.min(icAvailable, icRequired)
-  const transistorPower = (ic: number) => ic * Math.max(vceSat, vcc - ic * rl)
-  let pT = Math.max(transistorPower(icLow), transistorPower(icRequired))
+  let pT = Math.max(transistorPower(icLow, vcc, vceSat, rl), transistorPower(icRequired, vcc, vceSat, rl))
   const icPeak = vcc / (2 * rl) // maximum of ic*(vcc - ic*rl)
-  if (icPeak > icLow && icPeak < icRequired) pT = Math.max(pT, transistorPower(icPeak))
+  if (icPeak > icLow && icPeak < icRequired) pT = Math.max(pT, transistorPower(icPeak, vcc, vceSat, rl))
   const power = ledCurrent * stage.vf + pT
 
-  const absMax = (value: number, limit: number | undefined, what: string, unit: string) => {
-    if (limit !== undefined && value > limit)
-      warnings.push({ code: 'absolute-maximum', message: `${what} ${eng(value, unit)} exceeds its absolute maximum ${eng(limit, unit)}.` })
-  }
-  absMax(ledCurrent, stage.ledCurrentMax, 'LED current', 'A')
-  absMax(icRequired, stage.collectorCurrentMax, 'Collector current', 'A')
-  absMax(power, stage.powerMax, 'Coupler power', 'W')
-  absMax(ledCurrent, stage.driverCurrentMax, 'Driving pin current', 'A')
+  absMax(warnings, ledCurrent, stage.ledCurrentMax, 'LED current', 'A')
+  absMax(warnings, icRequired, stage.collectorCurrentMax, 'Collector current', 'A')
+  absMax(warnings, power, stage.powerMax, 'Coupler power', 'W')
+  absMax(warnings, ledCurrent, stage.driverCurrentMax, 'Driving pin current', 'A')
 
   // ---- switching times (section 5, timing)
   const passive = passiveDirection(wiring)
   const fits = fitCharacterization(stage)
   const typ = {} as Record<CharQuantity, number>
-  const rel = (x: number, y: number) => Math.abs(x - y) <= 1e-6 * Math.max(x, y)
   for (const q of CHAR_QUANTITIES) {
     const fit = fits[q]
     if (fit.method === 'none') continue
@@ -326,13 +320,6 @@ export function phototransistorModel(stage: PhototransistorStage): {
     }
   }
 
-  const skew = stage.partSkew
-  const corners = (t: number): Corners =>
-    skew !== undefined
-      ? { min: Math.max(0, t - skew / 2), typ: t, max: t + skew / 2 }
-      : { min: t * (1 - TYPICAL_SPREAD), typ: t, max: t * (1 + TYPICAL_SPREAD) }
-  const transition = (t: number) => ({ typ: t, max: t * (1 + TYPICAL_SPREAD) })
-
   // ---- output swing: collector wiring VCE(sat)..VCC, emitter wiring 0..VCC - VCE(sat);
   // an unsaturated output only reaches what the derated current can pull across RL.
   let vLow: number
@@ -351,8 +338,8 @@ export function phototransistorModel(stage: PhototransistorStage): {
   const fallShape: EdgeShape = passive === 'fall' ? 'exponential' : 'ramp'
   const model: StageEdgeModel = {
     inverting: phototransistorInverts(wiring, ledOnWhen),
-    tplh: corners(typ.tplh),
-    tphl: corners(typ.tphl),
+    tplh: delayCorners(typ.tplh, stage.partSkew),
+    tphl: delayCorners(typ.tphl, stage.partSkew),
     tr: transition(typ.tr),
     tf: transition(typ.tf),
     riseShape,
@@ -364,6 +351,34 @@ export function phototransistorModel(stage: PhototransistorStage): {
     jitterPeak: stage.jitterPeak ?? 0,
   }
   return { model, warnings, operating: { ledCurrent, icRequired, icAvailable, overdrive, saturated, power } }
+}
+
+/** Static transistor dissipation at collector current ic: ic * VCE, VCE the larger of VCE(sat) and what RL leaves. */
+function transistorPower(ic: number, vcc: number, vceSat: number, rl: number): number {
+  return ic * Math.max(vceSat, vcc - ic * rl)
+}
+
+/** Warn when a value exceeds its stated absolute maximum. */
+function absMax(warnings: Warning[], value: number, limit: number | undefined, what: string, unit: string): void {
+  if (limit !== undefined && value > limit)
+    warnings.push({ code: 'absolute-maximum', message: `${what} ${eng(value, unit)} exceeds its absolute maximum ${eng(limit, unit)}.` })
+}
+
+/** Equal within 1e-6 relative (an RL at the edge of the characterised range is inside it). */
+function rel(x: number, y: number): boolean {
+  return Math.abs(x - y) <= 1e-6 * Math.max(x, y)
+}
+
+/** Delay corners of a typical curve value: typ -/+ partSkew/2 (never below 0), else typ -/+ TYPICAL_SPREAD. */
+function delayCorners(t: number, skew: number | undefined): Corners {
+  return skew !== undefined
+    ? { min: Math.max(0, t - skew / 2), typ: t, max: t + skew / 2 }
+    : { min: t * (1 - TYPICAL_SPREAD), typ: t, max: t * (1 + TYPICAL_SPREAD) }
+}
+
+/** Transition time of a typical curve value: max = typ + TYPICAL_SPREAD. */
+function transition(t: number): { typ: number; max: number } {
+  return { typ: t, max: t * (1 + TYPICAL_SPREAD) }
 }
 
 function label(q: CharQuantity): string {
