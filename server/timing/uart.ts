@@ -465,6 +465,21 @@ export function fixedClockCases(layout: FrameLayout, s: SamplerModel, e: ClockEr
   return t
 }
 
+/**
+ * tableWorstUi at the clocks `fixed` was built for, from the same frame's case table:
+ * only the baud varies (the rate sweep), so each case's clock part is not recomputed.
+ */
+export function fixedClockWorstUi(fixed: FixedClockCases, t: CaseTable, baud: number): number {
+  const { aTable } = fixed
+  const { b } = t
+  let worst = Infinity
+  for (let i = 0; i < aTable.length; i++) {
+    const m = aTable[i]! - baud * b[i]!
+    if (m < worst) worst = m
+  }
+  return worst
+}
+
 /** Worst margin and maximum baud of one distortion: what marginAndMaxBaud writes. */
 export interface MarginAndMaxBaud {
   /** worstMarginUi at the given baud */
@@ -784,10 +799,11 @@ export function analyzeUartChannel(input: UartChannelInput): UartChannelResult {
   if (mb.maxBaud !== null) rates.add(mb.maxBaud)
   for (let i = 0; i < points; i++) rates.add(bottom * (top / bottom) ** (i / (points - 1)))
   const table = caseTable(layout, sampler, distortion)
+  const atConfiguredClocks = fixedClockCases(layout, sampler, errors)
   const rateSweep = [...rates]
     .filter((b) => b <= cap)
     .sort((a, b) => a - b)
-    .map((baud) => ({ baud, marginUi: tableWorstUi(table, errors, baud) }))
+    .map((baud) => ({ baud, marginUi: fixedClockWorstUi(atConfiguredClocks, table, baud) }))
 
   const standardRates: StandardRateRow[] = STANDARD_BAUD_RATES.map((baud) => {
     const c = clocksAt(input, baud)

@@ -1,11 +1,14 @@
 import { describe, expect, it } from 'vitest'
 import fc from 'fast-check'
 import {
+  caseTable,
   fixedClockCases,
+  fixedClockWorstUi,
   frameLayout,
   marginAndMaxBaud,
   maxBaud,
   samplerModel,
+  tableWorstUi,
   worstMarginUi,
   type MarginAndMaxBaud,
   type ReceiverEnd,
@@ -58,6 +61,20 @@ describe('fixed-clock case evaluation (pull-up sweep)', () => {
           }
         },
       ),
+      { numRuns: 300 },
+    )
+  })
+
+  it('gives bit for bit the rate sweep of the case table at the clocks it was built for', () => {
+    fc.assert(
+      fc.property(frameArb, rxArb, errArb, errArb, distortionArb, fc.array(fc.double({ min: 1, max: 5e6, noNaN: true }), { minLength: 1, maxLength: 8 }), (f, rx, tx, rxErr, d, bauds) => {
+        const layout = frameLayout(f.dataBits, f.parity, f.stopBits, f.backToBack)
+        const s = samplerModel(rx)
+        const e = { tx, rx: rxErr }
+        const table = caseTable(layout, s, d)
+        const fixed = fixedClockCases(layout, s, e)
+        for (const baud of bauds) expect(fixedClockWorstUi(fixed, table, baud)).toBe(tableWorstUi(table, e, baud))
+      }),
       { numRuns: 300 },
     )
   })
