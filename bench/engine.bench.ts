@@ -78,7 +78,8 @@ try {
 const rlMin = 100
 const rlMax = 97_600
 const rls = seriesValues('E96', rlMin, rlMax)
-const sweepMs = median(() => sweepPullup(link, channel.id, 0, { series: 'E96', rlMin, rlMax, overdrive: 1 }), 15, 3)
+// a few milliseconds each: enough runs that one scheduler or GC pause does not set the median
+const sweepMs = median(() => sweepPullup(link, channel.id, 0, { series: 'E96', rlMin, rlMax, overdrive: 1 }), 41, 10)
 line(`pull-up sweep, E96 ${rlMin} ohm..${rlMax / 1000} kohm (${rls.length} rows)`, sweepMs, 'ngspice / 1000')
 const electricalMs = median(() => rls.map((rl) => phototransistorModel({ ...stage, rl })), 50, 5)
 line(`  its stage models alone (${rls.length} x phototransistorModel)`, electricalMs, '')
