@@ -5,13 +5,14 @@
 set -euo pipefail
 cd "$(dirname "$0")/.."
 . scripts/lib.sh
+ensure_node_modules
+[ -f .nuxt/tsconfig.app.json ] || npx nuxt prepare >/dev/null 2>&1
 unset DATABASE_URL NUXT_DATABASE_URL
 export BITSLACK_PG_DIR=.data/postgres-load BITSLACK_PG_PORT=${BITSLACK_LOAD_PG_PORT:-54399} BITSLACK_PG_DB=bitslack_load
 export BITSLACK_ENV=test NUXT_SESSION_PASSWORD=load-session-password-at-least-32-characters
 export BITSLACK_BUILD_DIR=$PWD/.data/load-build/nuxt BITSLACK_OUTPUT_DIR=$PWD/.data/load-build/output
 PORT=${BITSLACK_LOAD_PORT:-3400}
 
-ensure_node_modules
 pids=()
 cleanup() {
   for p in "${pids[@]}"; do kill "$p" 2>/dev/null || true; done

@@ -30,7 +30,10 @@ export BITSLACK_ENV=test
 export NUXT_SESSION_PASSWORD=test-session-password-at-least-32-characters-long
 
 set -e
-ensure_node_modules
+# dependencies and the default .nuxt types (the root tsconfig refers to them) come first,
+# outside this run's own build folder
+env -u BITSLACK_BUILD_DIR -u BITSLACK_OUTPUT_DIR bash -c '. scripts/lib.sh; ensure_node_modules'
+[ -f .nuxt/tsconfig.app.json ] || env -u BITSLACK_BUILD_DIR -u BITSLACK_OUTPUT_DIR npx nuxt prepare >/dev/null 2>&1
 pkgs=("/usr/bin/chromium:chromium" "ngspice:ngspice" "pdftoppm:poppler-utils")
 ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1 || pkgs+=("/nonexistent-initdb:postgresql")
 ensure_debian_packages "${pkgs[@]}"
