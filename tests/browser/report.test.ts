@@ -119,4 +119,21 @@ describe('margin report in the browser', () => {
     await expect(row.textContent()).resolves.toMatch(/r1\s*.*signed off/)
     await screenshot(page, 'project-latest-report')
   })
+
+  it('the engineer imports a link JSON on the project page: problems named, a good file opens the new link', async () => {
+    const page = browser.page
+    await signIn(page, world.users.engineer.email)
+    await page.goto(`${baseURL}/projects/${projectId}`)
+    const good = buildLinkSpec('debug', 'Imported debug UART')
+    const bad = { ...structuredClone(good), schemaVersion: 3, channels: [] }
+    await page.getByTestId('import-json').setInputFiles({ name: 'bad.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(bad)) })
+    const alert = page.getByRole('alert').filter({ hasText: 'The file was not imported' })
+    await alert.waitFor()
+    await expect(alert.textContent()).resolves.toMatch(/schemaVersion: schemaVersion must be 1/)
+    await expect(alert.textContent()).resolves.toMatch(/channels: a link needs at least one channel/)
+    await screenshot(page, 'project-import-problems')
+    await page.getByTestId('import-json').setInputFiles({ name: 'good.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(good)) })
+    await page.waitForURL(/\/links\/\d+$/)
+    await page.getByRole('heading', { level: 1, name: 'Imported debug UART' }).waitFor()
+  })
 })
