@@ -9,7 +9,8 @@ import type { Page } from 'playwright-core'
 import { buildWorld, type World } from '../factories/world'
 import { FACTORY_PASSWORD } from '../factories/users'
 import { buildLink, buildLinkSpec, buildProject } from '../factories/workspace'
-import { openBrowser, screenshot, type BrowserSession } from '../support/browser'
+import path from 'node:path'
+import { openBrowser, screenshot, SCREENSHOT_DIR, type BrowserSession } from '../support/browser'
 
 const baseURL = inject('baseURL')
 let world: World
@@ -187,6 +188,7 @@ describe('the part library', () => {
     await panel.getByLabel('Part name').fill('Telemetry coupler as fitted')
     await panel.getByLabel('Description').fill('Saved from the telemetry link.')
     await screenshot(page, 'part-library-save-stage')
+    await stage.screenshot({ path: path.join(SCREENSHOT_DIR, 'part-library-save-stage-close.png') })
     const created = page.waitForResponse((r) => r.url().endsWith(`/api/teams/${world.teamId}/parts`) && r.request().method() === 'POST')
     await panel.getByRole('button', { name: 'Save part' }).click()
     const res = await created
@@ -197,8 +199,9 @@ describe('the part library', () => {
     const { partId: _from, ...linkStage } = spec.channels[0].stages[0]
     expect(part).toMatchObject({ name: 'Telemetry coupler as fitted', description: 'Saved from the telemetry link.', stage: linkStage })
     // the new part is offered at once in the channel's "Add a stage" list
-    await expect(page.locator('select optgroup[label="Part library"]').first().textContent()).resolves.toContain('Telemetry coupler as fitted')
+    await expect.poll(() => page.locator('select optgroup[label="Part library"]').first().textContent()).toContain('Telemetry coupler as fitted')
     await screenshot(page, 'part-library-stage-saved')
+    await stage.screenshot({ path: path.join(SCREENSHOT_DIR, 'part-library-stage-saved-close.png') })
   })
 
   it('a viewer reads parts and datasheets with no edit control', async () => {
