@@ -1,17 +1,4 @@
-/**
- * CSV export of the tables (RFC 4180: comma separated, CRLF, quotes doubled). Numbers are
- * written in plain SI so a spreadsheet can recompute with them; the header says the unit.
- */
-export function csvCell(v: unknown): string {
-  if (v === null || v === undefined) return ''
-  const s = typeof v === 'number' ? (Number.isFinite(v) ? String(v) : '') : String(v)
-  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s
-}
-
-export function toCsv(header: string[], rows: unknown[][]): string {
-  return [header, ...rows].map((r) => r.map(csvCell).join(',')).join('\r\n') + '\r\n'
-}
-
+/** Browser side of the table exports (the CSV writer itself is shared/utils/csv.ts). */
 /** Offer a CSV string as a file download (browser only). */
 export function downloadCsv(filename: string, csv: string) {
   const blob = new Blob([csv], { type: 'text/csv;charset=utf-8' })

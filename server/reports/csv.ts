@@ -3,21 +3,12 @@
  * doubled). Values are plain SI numbers as the engine computed them, so a spreadsheet can
  * recompute with them; each header names its unit.
  */
+import { toCsv } from '../../shared/utils/csv'
 import type { LinkAnalysis } from '../timing/analyze'
 
 /** Tables a revision can export. */
 export const REPORT_TABLES = ['bits', 'checks', 'standard-rates', 'rate-sweep', 'stages', 'pullup'] as const
 export type ReportTable = (typeof REPORT_TABLES)[number]
-
-export function csvCell(v: unknown): string {
-  if (v === null || v === undefined) return ''
-  const s = typeof v === 'number' ? (Number.isFinite(v) ? String(v) : '') : String(v)
-  return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s
-}
-
-export function toCsv(header: string[], rows: unknown[][]): string {
-  return [header, ...rows].map((r) => r.map(csvCell).join(',')).join('\r\n') + '\r\n'
-}
 
 /** Which tables exist for this result (UART: bits, rates; SPI: checks). */
 export function availableTables(a: LinkAnalysis, hasPullup: boolean): ReportTable[] {

@@ -13,7 +13,7 @@ import { REPORT_STATE_LABEL } from '../../shared/schemas/report'
 import type { ReportDetailDto } from '../../shared/types/report'
 import { formatEng, formatPercent, formatUi } from '../../shared/utils/units'
 import type { UartChannelResult } from '../timing/uart'
-import { SAFETY_CAUTION } from './caution'
+import { SAFETY_CAUTION } from '../../shared/utils/caution'
 
 export interface ReportFonts {
   /** Inter 400, latin subset, .woff */

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { compareValues, csvCell, toCsv } from '../../../../app/utils/csv'
+import { compareValues } from '../../../../app/utils/csv'
+import { csvCell, toCsv } from '../../../../shared/utils/csv'
 import { diffSpecs } from '../../../../app/utils/specDiff'
 
 describe('CSV export', () => {
