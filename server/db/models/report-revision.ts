@@ -1,7 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
 import type { Link as LinkSpec } from '../../../shared/schemas/link'
 import type { ReportState } from '../../../shared/schemas/report'
-import type { PullupChoice } from '../../../shared/types/report'
+import type { FrozenCapture, PullupChoice } from '../../../shared/types/report'
 import type { LinkAnalysis } from '../../timing/analyze'
 import type { Membership } from './membership'
 import type { ReportComment } from './report-comment'
@@ -30,6 +30,8 @@ export class ReportRevision extends Model<InferAttributes<ReportRevision>, Infer
   declare engineVersion: string
   declare assumptions: string[]
   declare pullup: PullupChoice | null
+  /** the scope captures of the link whose extraction was done at freeze (frozen, like input and result) */
+  declare captures: CreationOptional<FrozenCapture[]>
   declare state: CreationOptional<ReportState>
   declare authorId: number | null
   declare reviewerId: CreationOptional<number | null>
@@ -46,6 +48,8 @@ export class ReportRevision extends Model<InferAttributes<ReportRevision>, Infer
   declare decider?: NonAttribute<User | null>
   declare events?: NonAttribute<ReportEvent[]>
   declare comments?: NonAttribute<ReportComment[]>
+  /** ids of the frozen captures that still exist (set by loadRevision; their files can be downloaded) */
+  declare liveCaptureIds?: NonAttribute<number[]>
 
   static initModel(sequelize: Sequelize) {
     ReportRevision.init(
@@ -65,6 +69,7 @@ export class ReportRevision extends Model<InferAttributes<ReportRevision>, Infer
         engineVersion: { type: DataTypes.STRING(32), allowNull: false },
         assumptions: { type: DataTypes.JSONB, allowNull: false },
         pullup: { type: DataTypes.JSONB, allowNull: true },
+        captures: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] },
         state: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'draft' },
         authorId: { type: DataTypes.INTEGER, allowNull: true },
         reviewerId: { type: DataTypes.INTEGER, allowNull: true },
