@@ -10,7 +10,8 @@ import { Op, type Transaction } from 'sequelize'
 import type { CommentTarget, FreezeBody, ReportState } from '../../shared/schemas/report'
 import { REPORT_STATE_LABEL, revisionLabel } from '../../shared/schemas/report'
 import type { Role } from '../../shared/schemas/roles'
-import { Link, Membership, Project, ReportComment, ReportEvent, ReportRevision, User } from '../db/models'
+import { Capture, Link, Membership, Project, ReportComment, ReportEvent, ReportRevision, User } from '../db/models'
+import { freezeCaptures } from '../reports/captures'
 import { freezeAnalysis, recomputeRevision } from '../reports/freeze'
 import { useDb } from '../utils/db'
 import { ConflictError, ForbiddenError, InvalidError } from '../utils/errors'
@@ -24,9 +25,12 @@ const people = [
   { model: User, as: 'decider', attributes: ['id', 'name', 'email'] },
 ]
 
-/** Everything the report page shows: people, review steps and comments, in order. */
-export function loadRevision(id: number, transaction?: Transaction) {
-  return ReportRevision.findByPk(id, {
+/**
+ * Everything the report page shows: people, review steps and comments, in order, and
+ * which of the frozen captures still exist (only those get a download link).
+ */
+export async function loadRevision(id: number, transaction?: Transaction) {
+  const rev = await ReportRevision.findByPk(id, {
     include: [
       ...people,
       { model: ReportEvent, as: 'events', include: [{ model: User, as: 'actor', attributes: ['id', 'name'] }, { model: User, as: 'reviewer', attributes: ['id', 'name'] }] },
@@ -39,6 +43,10 @@ export function loadRevision(id: number, transaction?: Transaction) {
     transaction,
     rejectOnEmpty: true,
   })
+  const ids = (rev.captures ?? []).map((c) => c.id)
+  const live = ids.length ? await Capture.findAll({ where: { id: { [Op.in]: ids }, teamId: rev.teamId }, attributes: ['id'], transaction }) : []
+  rev.liveCaptureIds = live.map((c) => c.id)
+  return rev
 }
 
 /** The newest revision number of a link (0 when none). */
@@ -61,6 +69,15 @@ export async function freezeRevision(link: Link, userId: number, body: FreezeBod
     const frozen = freezeAnalysis(locked.spec, body.pullup)
     const project = await Project.findByPk(locked.projectId, { transaction, rejectOnEmpty: true })
     const number = (await latestNumber(locked.id, transaction)) + 1
+    // the captures that back this revision: a snapshot, so a later deletion leaves the report as it was
+    const done = await Capture.findAll({
+      where: { linkId: locked.id, status: 'done' },
+      attributes: { exclude: ['waveform'] },
+      include: [{ model: User, as: 'owner', attributes: ['id', 'name'] }],
+      order: [['id', 'ASC']],
+      transaction,
+    })
+    const captures = freezeCaptures(done, frozen.input)
     const rev = await ReportRevision.create(
       {
         teamId: locked.teamId,
@@ -78,6 +95,7 @@ export async function freezeRevision(link: Link, userId: number, body: FreezeBod
         engineVersion: frozen.engineVersion,
         assumptions: frozen.assumptions,
         pullup: frozen.pullup ? JSON.parse(JSON.stringify(frozen.pullup)) : null,
+        captures: JSON.parse(JSON.stringify(captures)),
         authorId: userId,
       },
       { transaction },
@@ -89,7 +107,7 @@ export async function freezeRevision(link: Link, userId: number, body: FreezeBod
       action: 'report.freeze',
       entity: 'report',
       entityId: rev.id,
-      detail: { linkId: link.id, revision: revisionLabel(number), linkVersion: locked.version, verdict: frozen.verdict, engineVersion: frozen.engineVersion },
+      detail: { linkId: link.id, revision: revisionLabel(number), linkVersion: locked.version, verdict: frozen.verdict, engineVersion: frozen.engineVersion, captureIds: captures.map((c) => c.id) },
     })
     return rev.id
   })
@@ -241,7 +259,7 @@ export async function reviewQueue(userId: number) {
   if (!ms.length) return []
   const revs = await ReportRevision.findAll({
     where: { teamId: { [Op.in]: ms.map((m) => m.teamId) }, state: 'submitted', authorId: { [Op.or]: [{ [Op.ne]: userId }, { [Op.is]: null }] } },
-    attributes: { exclude: ['input', 'result', 'pullup', 'assumptions'] },
+    attributes: { exclude: ['input', 'result', 'pullup', 'assumptions', 'captures'] },
     include: people,
     order: [['submittedAt', 'ASC']],
   })
@@ -252,7 +270,7 @@ export async function reviewQueue(userId: number) {
 export function linkRevisions(linkId: number) {
   return ReportRevision.findAll({
     where: { linkId },
-    attributes: { exclude: ['input', 'result', 'pullup', 'assumptions'] },
+    attributes: { exclude: ['input', 'result', 'pullup', 'assumptions', 'captures'] },
     include: people,
     order: [['number', 'DESC']],
   })

@@ -4,6 +4,7 @@
  * Only its review state moves: draft -> submitted -> signed off | returned. Dates are
  * ISO 8601 strings; every number inside `result` is the engine's own (SI units).
  */
+import type { SummaryStats } from '../../server/captures/stats'
 import type { LinkAnalysis } from '../../server/timing/analyze'
 import type { PullupSweepResult } from '../../server/timing/sweep'
 import type { Link } from '../schemas/link'
@@ -20,6 +21,69 @@ export interface PullupChoice {
   /** the stage's pull-up and LED resistor as frozen, ohms */
   rl: number
   rLed: number | null
+}
+
+/** One voltage channel of a capture, as frozen with a revision. */
+export interface FrozenCaptureChannel {
+  /** 1-based, as the user sees it (the first voltage column is channel 1) */
+  number: number
+  /** the column's name in the file */
+  name: string
+  /** seconds: 10-90 % durations of the channel's rising edges */
+  tr: SummaryStats | null
+  /** seconds: 90-10 % durations of the falling edges */
+  tf: SummaryStats | null
+}
+
+/** Where a capture's measured values sit in the frozen input (only when they match it exactly). */
+export interface CaptureApplication {
+  channelId: string
+  /** 0-based index in the channel's stages */
+  stageIndex: number
+  stageName: string
+  /** typical values and spread of a digital stage, or a characterisation point of a phototransistor stage */
+  as: 'typical' | 'characterization'
+}
+
+/**
+ * A scope capture that backs a revision: a snapshot taken at freeze (issue 7), so it
+ * stays as it was when the capture is later deleted. Numbers are SI (seconds, bytes, ohms).
+ */
+export interface FrozenCapture {
+  id: number
+  label: string
+  /** the uploaded file's name, display only */
+  fileName: string
+  /** hex SHA-256 of the stored bytes */
+  sha256: string
+  /** bytes */
+  size: number
+  uploadedBy: PersonRef | null
+  /** ISO 8601 */
+  uploadedAt: string
+  /** the path's input channel */
+  input: FrozenCaptureChannel | null
+  /** the path's output channel; null when the capture was not paired */
+  output: FrozenCaptureChannel | null
+  /** whether the path inverts, null without pairing */
+  inverting: boolean | null
+  sampleCount: number
+  /** ohms: the pull-up the capture was taken at, when given at upload */
+  rl?: number
+  /** seconds, 50 % to 50 %, output rising */
+  tPLH: SummaryStats | null
+  /** seconds, 50 % to 50 %, output falling */
+  tPHL: SummaryStats | null
+  /** extraction method version */
+  method: string
+  /** present only when the frozen input holds exactly the values "apply to stage" makes of this capture */
+  appliedTo?: CaptureApplication
+}
+
+/** A frozen capture in the report DTO. */
+export interface ReportCaptureDto extends FrozenCapture {
+  /** the capture still exists: its file can be downloaded from /captures/:id/file */
+  available: boolean
 }
 
 /** A revision as lists show it. */
@@ -83,6 +147,8 @@ export interface ReportDetailDto extends ReportSummaryDto {
   result: LinkAnalysis
   assumptions: string[]
   pullup: PullupChoice | null
+  /** the scope captures of the link whose extraction was done at freeze, oldest first */
+  captures: ReportCaptureDto[]
   decidedBy: PersonRef | null
   /** the reviewer's note with a sign-off or a return */
   decisionNote: string | null

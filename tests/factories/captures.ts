@@ -146,3 +146,21 @@ export async function* chunked(text: string | Uint8Array, sizes: readonly number
     i += n
   }
 }
+
+/**
+ * A bench capture of a coupler path with known delays: a random NRZ pattern on the input,
+ * the output delayed by tPLH / tPHL (by output direction), a fast ramp in, an exponential
+ * rise and a ramp fall out, with light noise. Slow enough (default 9600 Bd) for every edge
+ * to settle. Returns the CSV text (with scope header lines) and the number of input edges.
+ */
+export function couplerCapture(o: { tPLH: number; tPHL: number; inverting?: boolean; bits?: number; bitTime?: number; seed?: number } = { tPLH: 22e-6, tPHL: 3e-6, inverting: true }) {
+  const bits = o.bits ?? 60
+  const bitTime = o.bitTime ?? 1 / 9600
+  const input = nrzEdges(bits, bitTime, 20e-6, o.seed ?? 17)
+  const output = delayedEdges(input, { tPLH: o.tPLH, tPHL: o.tPHL, inverting: o.inverting })
+  const dt = 100e-9
+  const n = Math.ceil((bits * bitTime + 100e-6) / dt)
+  const vin = sampleWave(n, 0, dt, { edges: input, low: 0, high: 3.3, rise: { kind: 'ramp', duration: 20e-9 }, fall: { kind: 'ramp', duration: 20e-9 }, noiseRms: 0.01, seed: 1 })
+  const vout = sampleWave(n, 0, dt, { edges: output, low: 0.2, high: 3.3, rise: { kind: 'exp', tau: 15e-6 / Math.log(9) }, fall: { kind: 'ramp', duration: 2e-6 }, noiseRms: 0.02, seed: 2 })
+  return { text: toCsv(0, dt, [vin, vout], { header: ['Record Length,' + n, 'Time (s),TX pin (V),Coupler out (V)'] }), edges: input.length }
+}

@@ -32,6 +32,7 @@ export function buildReportDetail(link: LinkInput, overrides: Partial<ReportDeta
     result: json.result,
     assumptions: json.assumptions,
     pullup: json.pullup,
+    captures: [],
     decidedBy: null,
     decisionNote: null,
     version: 1,
