@@ -12,6 +12,7 @@ import PDFDocument from 'pdfkit'
 import { REPORT_STATE_LABEL } from '../../shared/schemas/report'
 import type { ReportDetailDto } from '../../shared/types/report'
 import { formatEng, formatPercent, formatUi } from '../../shared/utils/units'
+import type { SummaryStats } from '../captures/stats'
 import type { UartChannelResult } from '../timing/uart'
 import { SAFETY_CAUTION } from '../../shared/utils/caution'
 
@@ -464,8 +465,47 @@ export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts
   }
 
   // ------------------------------------------------------------ captures, assumptions, warnings
-  heading('Captures')
-  text('No oscilloscope capture backs this revision: every number above is computed from the stage parameters.', { size: 8.5, colour: MUTED })
+  heading('Captures that back this revision')
+  if (!report.captures.length) text('No oscilloscope capture backs this revision: every number above is computed from the stage parameters.', { size: 8.5, colour: MUTED })
+  else {
+    text('Measured on the bench and frozen with the revision: 50 % to 50 % delays from the input to the output channel, 10-90 % transition times of the output.', { size: 8.5, colour: MUTED })
+    doc.moveDown(0.3)
+    for (const c of report.captures) {
+      ensure(150)
+      text(`Capture ${c.id}: ${c.label || c.fileName}`, { size: 9.5, bold: true })
+      keyValues(
+        [
+          ['File', `${c.fileName} (${c.size.toLocaleString('en')} bytes)${c.available ? '' : ', since deleted'}`],
+          ['SHA-256', c.sha256],
+          ['Uploaded', `${when(c.uploadedAt)} by ${c.uploadedBy?.name ?? '(former member)'}`],
+          [
+            'Channels',
+            `${c.input ? `in ${c.input.number} "${c.input.name}"` : '-'}${c.output ? ` -> out ${c.output.number} "${c.output.name}"` : ', not paired'}${c.inverting === null ? '' : c.inverting ? ', inverting' : ', non-inverting'}`,
+          ],
+          ['Samples', `${c.sampleCount.toLocaleString('en')}${c.rl !== undefined ? `, taken at RL ${eng(c.rl, 'ohm')}` : ''}`],
+          ...(c.appliedTo ? ([['Applied to', `${c.appliedTo.stageName} (channel ${c.appliedTo.channelId}, stage ${c.appliedTo.stageIndex + 1}) as ${c.appliedTo.as === 'typical' ? 'typical values and spread' : 'a characterisation point'}`]] as [string, string][]) : []),
+        ],
+        90,
+      )
+      const rows: [string, SummaryStats | null][] = [
+        ['tPLH', c.tPLH],
+        ['tPHL', c.tPHL],
+        ['tr (output)', c.output?.tr ?? null],
+        ['tf (output)', c.output?.tf ?? null],
+      ]
+      table(
+        [
+          { label: 'Quantity', width: 80, mono: false, align: 'left' },
+          { label: 'Count', width: 50 },
+          { label: 'Min', width: 70 },
+          { label: 'Mean', width: 70 },
+          { label: 'Max', width: 70 },
+          { label: 'Sigma', width: 70 },
+        ],
+        rows.map(([name, st]) => [name, String(st?.count ?? 0), eng(st?.min, 's', 4), eng(st?.mean, 's', 4), eng(st?.max, 's', 4), eng(st?.sigma, 's', 3)]),
+      )
+    }
+  }
   heading('Warnings')
   if (a.warnings.length) bullets(a.warnings.map((w) => `[${w.code}] ${w.message}${w.channel ? ` (${w.channel}${w.stage !== undefined ? `, stage ${w.stage + 1}` : ''})` : ''}`), THIN)
   else text('The engine raised no warning for this input.', { size: 8.5, colour: MUTED })

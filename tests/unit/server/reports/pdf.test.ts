@@ -4,8 +4,12 @@ import { tmpdir } from 'node:os'
 import path from 'node:path'
 import { afterAll, describe, expect, it } from 'vitest'
 import { ADC_SPI_LINK, TELEMETRY_LINK } from '../../../../server/db/seeders/demo-links'
-import { buildReportPdf, REPORT_FONT_FILES, type ReportFonts } from '../../../../server/reports/pdf'
-import { formatUi } from '../../../../shared/utils/units'
+import { analyseCaptureStream } from '../../../../server/captures/analyse'
+import { freezeCaptures } from '../../../../server/reports/captures'
+import { buildReportPdf, pdfText, REPORT_FONT_FILES, type ReportFonts } from '../../../../server/reports/pdf'
+import { applyCaptureToStage } from '../../../../shared/utils/capture-apply'
+import { formatEng, formatUi } from '../../../../shared/utils/units'
+import { couplerCapture } from '../../../factories/captures'
 import { buildReportDetail } from '../../../factories/reports'
 
 const fonts = Object.fromEntries(
@@ -78,6 +82,41 @@ describe('margin report PDF', () => {
     for (const c of report.result.spi!.checks) expect(text).toContain(c.id)
     expect(text).toContain('SCLK candidates')
     expect(text).not.toContain('Pull-up choice')
+  })
+
+  it('lists the captures that back the revision with their measured delays and transition times', async () => {
+    const plain = buildReportDetail(TELEMETRY_LINK)
+    const none = pdfToText(await buildReportPdf(plain, fonts), 'no-captures')
+    expect(none).toContain('Captures that back this revision')
+    expect(none).toContain('No oscilloscope capture backs this revision')
+
+    const { result } = await analyseCaptureStream([couplerCapture().text])
+    const measured = JSON.parse(JSON.stringify(result))
+    const applied = applyCaptureToStage(plain.input, { channel: 0, stage: 0 }, measured, 'characterization', { rl: 4700 }).spec
+    const source = { id: 41, label: 'coupler at 4.7k', fileName: 'bench-0412.csv', sha256: 'c0ffee'.padEnd(64, '0'), size: 2_345_678, options: { rl: 4700 }, result: measured, createdAt: new Date('2026-12-01T15:20:00.000Z'), owner: { id: 1, name: 'Demo Engineer' } }
+    const captures = freezeCaptures([source], applied).map((c) => ({ ...c, available: false }))
+    const report = buildReportDetail(TELEMETRY_LINK, { input: applied, captures })
+    const text = pdfToText(await buildReportPdf(report, fonts), 'captures')
+    const flat = text.replace(/\s+/g, ' ')
+    const c = captures[0]!
+    expect(text).toContain('Captures that back this revision')
+    expect(text).not.toContain('No oscilloscope capture backs this revision')
+    expect(text).toContain('Capture 41: coupler at 4.7k')
+    expect(flat).toContain('bench-0412.csv (2,345,678 bytes), since deleted')
+    expect(text).toContain(c.sha256)
+    expect(flat).toContain('2026-12-01 15:20 UTC by Demo Engineer')
+    expect(flat).toContain('in 1 "TX pin (V)" -> out 2 "Coupler out (V)", inverting')
+    expect(flat).toMatch(/Applied to .* \(channel telemetry, stage 1\) as a characterisation point/)
+    const eng = (v: number, digits = 4) => pdfText(formatEng(v, 's', { digits }))
+    for (const [name, st] of [['tPLH', c.tPLH!], ['tPHL', c.tPHL!], ['tr (output)', c.output!.tr!], ['tf (output)', c.output!.tf!]] as const) {
+      const row = text.split('\n').find((l) => l.trimStart().startsWith(name))
+      expect(row, name).toBeDefined()
+      expect(row!.replace(/\s+/g, ' ')).toContain(`${st.count} ${eng(st.min)} ${eng(st.mean)} ${eng(st.max)} ${eng(st.sigma, 3)}`)
+    }
+    // the measured means are the synthetic path's delays
+    expect(eng(c.tPLH!.mean, 2)).toBe('22 us')
+    expect(eng(c.tPHL!.mean, 2)).toBe('3 us')
+    expect(text).not.toMatch(/[µΩ\uFFFD]/)
   })
 
   it('renders the timeline page to an image with ink on it', async () => {
