@@ -38,3 +38,36 @@ ensure_session_secret() {
     export NUXT_SESSION_PASSWORD
   fi
 }
+
+# Everything a script starts stops with it: call once, then append each PID to `pids`.
+# The local cluster stops too when this script started it (STOP_LOCAL_PG=yes).
+stop_on_exit() {
+  pids=()
+  trap _stop_started EXIT INT TERM
+}
+_stop_started() {
+  for p in "${pids[@]}"; do kill "$p" 2>/dev/null || true; done
+  if [ "${STOP_LOCAL_PG:-}" = yes ]; then env -u DATABASE_URL bash scripts/pg.sh stop || true; fi
+}
+
+# The database of npm start / npm run dev: the local cluster unless DATABASE_URL names a
+# server, migrated, with the demo seeded when it is empty.
+prepare_demo_database() {
+  [ -n "${DATABASE_URL:-}" ] || STOP_LOCAL_PG=yes
+  bash scripts/pg.sh start
+  DATABASE_URL=${DATABASE_URL:-$(bash scripts/pg.sh url)}
+  export DATABASE_URL NUXT_DATABASE_URL=$DATABASE_URL
+  npx tsx scripts/db.ts migrate
+  npx tsx scripts/db.ts seed
+}
+
+# A throwaway cluster for test and load runs (BITSLACK_PG_DIR made anew), migrated.
+fresh_cluster() {
+  STOP_LOCAL_PG=yes
+  bash scripts/pg.sh stop >/dev/null 2>&1 || true
+  rm -rf "$BITSLACK_PG_DIR"
+  bash scripts/pg.sh start
+  DATABASE_URL=$(bash scripts/pg.sh url)
+  export DATABASE_URL
+  npx tsx scripts/db.ts migrate
+}

@@ -13,18 +13,8 @@ export BITSLACK_ENV=test NUXT_SESSION_PASSWORD=load-session-password-at-least-32
 export BITSLACK_BUILD_DIR=$PWD/.data/load-build/nuxt BITSLACK_OUTPUT_DIR=$PWD/.data/load-build/output
 PORT=${BITSLACK_LOAD_PORT:-3400}
 
-pids=()
-cleanup() {
-  for p in "${pids[@]}"; do kill "$p" 2>/dev/null || true; done
-  env -u DATABASE_URL bash scripts/pg.sh stop || true
-}
-trap cleanup EXIT INT TERM
-
-bash scripts/pg.sh stop >/dev/null 2>&1 || true
-rm -rf "$BITSLACK_PG_DIR"
-bash scripts/pg.sh start
-export DATABASE_URL=$(bash scripts/pg.sh url)
-npx tsx scripts/db.ts migrate
+stop_on_exit
+fresh_cluster
 npx tsx scripts/db.ts seed
 # storage fake on its own port (no mail is sent in the mix)
 . scripts/fakes.sh

@@ -11,21 +11,9 @@ HOST=${HOST:-127.0.0.1}
 export BITSLACK_ENV=${BITSLACK_ENV:-demo}
 
 ensure_node_modules
-LOCAL_PG=${DATABASE_URL:+no}
-bash scripts/pg.sh start
-DATABASE_URL=${DATABASE_URL:-$(bash scripts/pg.sh url)}
-export DATABASE_URL NUXT_DATABASE_URL=$DATABASE_URL
+stop_on_exit
+prepare_demo_database
 ensure_session_secret
-
-npx tsx scripts/db.ts migrate
-npx tsx scripts/db.ts seed
-
-pids=()
-cleanup() {
-  for p in "${pids[@]}"; do kill "$p" 2>/dev/null || true; done
-  [ "${LOCAL_PG:-}" = no ] || env -u DATABASE_URL bash scripts/pg.sh stop || true
-}
-trap cleanup EXIT INT TERM
 
 . scripts/fakes.sh
 start_fakes

@@ -38,18 +38,8 @@ pkgs=("/usr/bin/chromium:chromium" "ngspice:ngspice" "pdftoppm:poppler-utils")
 ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1 || pkgs+=("/nonexistent-initdb:postgresql")
 ensure_debian_packages "${pkgs[@]}"
 
-pids=()
-cleanup() {
-  for p in "${pids[@]}"; do kill "$p" 2>/dev/null || true; done
-  env -u DATABASE_URL bash scripts/pg.sh stop || true
-}
-trap cleanup EXIT INT TERM
-
-bash scripts/pg.sh stop >/dev/null 2>&1 || true
-rm -rf "$BITSLACK_PG_DIR"
-bash scripts/pg.sh start
-export DATABASE_URL=$(bash scripts/pg.sh url)
-npx tsx scripts/db.ts migrate
+stop_on_exit
+fresh_cluster
 set +e
 
 log "building the app for the integration and browser tiers"

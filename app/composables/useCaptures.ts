@@ -27,44 +27,22 @@ export function useCaptures(linkId: () => string) {
   const uploadProgress = ref(0)
   const uploadError = ref<string | null>(null)
 
-  /** Upload through XMLHttpRequest: fetch cannot report upload progress. */
-  function upload(file: File, fields: Record<string, string>): Promise<CaptureDto | null> {
+  /** Upload with progress (app/utils/upload.ts); refreshes the list when stored. */
+  async function upload(file: File, fields: Record<string, string>): Promise<CaptureDto | null> {
     uploading.value = true
     uploadProgress.value = 0
     uploadError.value = null
     const form = new FormData()
     for (const [k, v] of Object.entries(fields)) if (v !== '') form.set(k, v)
     form.set('file', file, file.name)
-    return new Promise((resolve) => {
-      const xhr = new XMLHttpRequest()
-      xhr.open('POST', `/api/links/${linkId()}/captures`)
-      xhr.setRequestHeader('accept', 'application/json')
-      xhr.upload.onprogress = (e) => {
-        if (e.lengthComputable) uploadProgress.value = e.loaded / e.total
-      }
-      xhr.onload = async () => {
-        uploading.value = false
-        let body: { statusMessage?: string; message?: string } & Partial<CaptureDto> = {}
-        try {
-          body = JSON.parse(xhr.responseText)
-        } catch {
-          // a non-JSON answer (a proxy's 413 page): reported by status below
-        }
-        if (xhr.status >= 200 && xhr.status < 300) {
-          await refresh()
-          resolve(body as CaptureDto)
-        } else {
-          uploadError.value = body.statusMessage || body.message || `upload refused (HTTP ${xhr.status})`
-          resolve(null)
-        }
-      }
-      xhr.onerror = () => {
-        uploading.value = false
-        uploadError.value = 'the upload did not reach the server'
-        resolve(null)
-      }
-      xhr.send(form)
-    })
+    const answer = await uploadWithProgress<CaptureDto>(`/api/links/${linkId()}/captures`, form, (f) => (uploadProgress.value = f))
+    uploading.value = false
+    if (!answer.ok) {
+      uploadError.value = answer.message
+      return null
+    }
+    await refresh()
+    return answer.body
   }
 
   async function remove(id: number) {

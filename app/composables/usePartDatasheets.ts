@@ -15,43 +15,21 @@ export function usePartDatasheets(partId: () => string) {
   const uploadProgress = ref(0)
   const uploadError = ref<string | null>(null)
 
-  /** Upload through XMLHttpRequest: fetch cannot report upload progress. */
-  function upload(file: File): Promise<DatasheetDto | null> {
+  /** Upload with progress (app/utils/upload.ts); refreshes the list when stored. */
+  async function upload(file: File): Promise<DatasheetDto | null> {
     uploading.value = true
     uploadProgress.value = 0
     uploadError.value = null
     const form = new FormData()
     form.set('file', file, file.name)
-    return new Promise((resolve) => {
-      const xhr = new XMLHttpRequest()
-      xhr.open('POST', `/api/parts/${partId()}/datasheets`)
-      xhr.setRequestHeader('accept', 'application/json')
-      xhr.upload.onprogress = (e) => {
-        if (e.lengthComputable) uploadProgress.value = e.loaded / e.total
-      }
-      xhr.onload = async () => {
-        uploading.value = false
-        let body: { statusMessage?: string; message?: string } & Partial<DatasheetDto> = {}
-        try {
-          body = JSON.parse(xhr.responseText)
-        } catch {
-          // a non-JSON answer (a proxy's 413 page): reported by status below
-        }
-        if (xhr.status >= 200 && xhr.status < 300) {
-          await refresh()
-          resolve(body as DatasheetDto)
-        } else {
-          uploadError.value = body.statusMessage || body.message || `upload refused (HTTP ${xhr.status})`
-          resolve(null)
-        }
-      }
-      xhr.onerror = () => {
-        uploading.value = false
-        uploadError.value = 'the upload did not reach the server'
-        resolve(null)
-      }
-      xhr.send(form)
-    })
+    const answer = await uploadWithProgress<DatasheetDto>(`/api/parts/${partId()}/datasheets`, form, (f) => (uploadProgress.value = f))
+    uploading.value = false
+    if (!answer.ok) {
+      uploadError.value = answer.message
+      return null
+    }
+    await refresh()
+    return answer.body
   }
 
   return { datasheets: data, refresh, error, status, upload, uploading, uploadProgress, uploadError }
