@@ -3,9 +3,13 @@ import { mkdtempSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import path from 'node:path'
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
+import { QueryTypes } from 'sequelize'
 import { AuditEntry, ReportRevision } from '../../../server/db/models'
+import { pdfText } from '../../../server/reports/pdf'
 import { analyzeLink } from '../../../server/timing'
-import { formatUi } from '../../../shared/utils/units'
+import { applyCaptureToStage } from '../../../shared/utils/capture-apply'
+import { formatEng, formatUi } from '../../../shared/utils/units'
+import { couplerCapture } from '../../factories/captures'
 import { useTestDb } from '../../factories/db'
 import { FACTORY_PASSWORD } from '../../factories/users'
 import { buildLink, buildLinkSpec, buildProject } from '../../factories/workspace'
@@ -267,6 +271,111 @@ describe('recompute, exports and import', () => {
     const newest = all[0]
     expect(res.data.find((l: { linkId: number }) => l.linkId === telemetryId)).toMatchObject({ reportId: newest.id, label: newest.label, state: newest.state })
     expect((await w.clients.outsider.get(`/api/projects/${projectId}/reports/latest`)).status).toBe(404)
+  })
+})
+
+describe('captures that back a revision', () => {
+  /** A session cookie for multipart uploads (the api client sends JSON). */
+  async function cookieOf(email: string) {
+    const signIn = await fetch(`${inject('baseURL')}/api/auth/sign-in`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: FACTORY_PASSWORD }) })
+    expect(signIn.status).toBe(200)
+    return signIn.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
+  }
+  async function upload(linkId: number, text: string, name: string, fields: Record<string, string> = {}) {
+    const form = new FormData()
+    for (const [k, v] of Object.entries(fields)) form.set(k, v)
+    form.set('file', new Blob([text], { type: 'text/csv' }), name)
+    const res = await fetch(`${inject('baseURL')}/api/links/${linkId}/captures`, { method: 'POST', body: form, headers: { cookie: await cookieOf(w.users.engineer.email) } })
+    const data = await res.json()
+    expect(res.status, JSON.stringify(data)).toBe(202)
+    return data as { id: number; sha256: string; size: number }
+  }
+  async function settled(id: number) {
+    const end = Date.now() + 30_000
+    for (;;) {
+      const res = await w.clients.viewer.get(`/api/captures/${id}`)
+      if (res.data.status === 'done' || res.data.status === 'failed' || Date.now() > end) return res.data
+      await new Promise((r) => setTimeout(r, 250))
+    }
+  }
+
+  it('a freeze records the done captures with their measured numbers; deleting a capture leaves the revision as it was', async () => {
+    const linkId = (await buildLink(w.clients.engineer, projectId, buildLinkSpec('telemetry', 'Captured telemetry'))).id
+    const none = await freeze(linkId)
+    expect(none.captures).toEqual([])
+
+    const { text, edges } = couplerCapture()
+    const up = await upload(linkId, text, 'bench 0412.csv', { label: 'coupler at 4.7k', rl: '4700' })
+    // a capture whose extraction fails (a malformed line past the part checked at upload) backs nothing
+    const lines = text.split('\n')
+    lines[60_000] = 'not,a,number'
+    const bad = await upload(linkId, lines.join('\n'), 'broken.csv')
+    const capture = await settled(up.id)
+    expect(capture.status, JSON.stringify(capture.error)).toBe('done')
+    expect((await settled(bad.id)).status).toBe('failed')
+
+    // the measured point applied to the coupler stage, saved through the ordinary PATCH
+    const link = await w.clients.engineer.get(`/api/links/${linkId}`)
+    const { spec } = applyCaptureToStage(link.data.spec, { channel: 0, stage: 0 }, capture.result, 'characterization', { rl: 4700 })
+    expect((await w.clients.engineer.patch(`/api/links/${linkId}`, { version: link.data.version, spec })).status).toBe(200)
+
+    const r = await freeze(linkId)
+    expect(r.captures).toHaveLength(1)
+    const c = r.captures[0]
+    const p = capture.result.pairing
+    expect(c).toMatchObject({
+      id: up.id,
+      label: 'coupler at 4.7k',
+      fileName: 'bench 0412.csv',
+      sha256: up.sha256,
+      size: up.size,
+      uploadedBy: { id: w.users.engineer.id, name: 'Test engineer' },
+      uploadedAt: capture.createdAt,
+      input: { number: 1, name: 'TX pin (V)' },
+      output: { number: 2, name: 'Coupler out (V)', tr: capture.result.channels[1].tr, tf: capture.result.channels[1].tf },
+      inverting: true,
+      rl: 4700,
+      available: true,
+      appliedTo: { channelId: spec.channels[0]!.id, stageIndex: 0, as: 'characterization' },
+    })
+    expect(c.tPLH).toEqual(p.tPLH)
+    expect(c.tPHL).toEqual(p.tPHL)
+    expect(c.tPLH.count + c.tPHL.count).toBe(edges)
+    expect(Math.abs(c.tPLH.mean - 22e-6)).toBeLessThan(0.1e-6)
+    expect(Math.abs(c.tPHL.mean - 3e-6)).toBeLessThan(0.1e-6)
+    // the earlier revision, frozen before the upload, stays without captures
+    expect((await w.clients.viewer.get(`/api/reports/${none.id}`)).data.captures).toEqual([])
+
+    // the column is frozen: the trigger refuses an UPDATE of it, by SQL or through the model
+    const db = useTestDb()
+    await expect(db.query(`UPDATE report_revisions SET captures = '[]'::jsonb WHERE id = :id`, { replacements: { id: r.id } })).rejects.toThrow(/immutable/)
+    await expect(ReportRevision.update({ captures: [] }, { where: { id: r.id } })).rejects.toThrow(/immutable/)
+    const [row] = await db.query<{ captures: { id: number }[] }>('SELECT captures FROM report_revisions WHERE id = :id', { replacements: { id: r.id }, type: QueryTypes.SELECT })
+    expect(row!.captures.map((x) => x.id)).toEqual([up.id])
+
+    const pdf = await fetchBytes(w.users.viewer.email, `/reports/${r.id}/report.pdf`)
+    expect(pdf.status).toBe(200)
+    const file = path.join(dir, 'captures.pdf')
+    writeFileSync(file, pdf.body)
+    const pdfTextOut = execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' })
+    expect(pdfTextOut).toContain('Captures that back this revision')
+    expect(pdfTextOut).toContain(`Capture ${up.id}: coupler at 4.7k`)
+    expect(pdfTextOut).toContain(pdfText(formatEng(c.tPLH.mean, 's', { digits: 4 })))
+    expect(pdfTextOut).toContain(pdfText(formatEng(c.tPHL.mean, 's', { digits: 4 })))
+
+    expect((await w.clients.engineer.delete(`/api/captures/${up.id}`)).status).toBe(204)
+    expect((await w.clients.viewer.get(`/api/captures/${up.id}`)).status).toBe(404)
+    const after = await w.clients.viewer.get(`/api/reports/${r.id}`)
+    expect(after.status).toBe(200)
+    expect(after.data.captures).toEqual([{ ...c, available: false }])
+    writeFileSync(file, (await fetchBytes(w.users.viewer.email, `/reports/${r.id}/report.pdf`)).body)
+    const afterPdf = execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' })
+    expect(afterPdf.replace(/\s+/g, ' ')).toContain('since deleted')
+    expect(afterPdf).toContain(pdfText(formatEng(c.tPLH.mean, 's', { digits: 4 })))
+    // the review state still moves on a revision with captures
+    const sub = await w.clients.engineer.post(`/api/reports/${r.id}/submit`, { reviewerId: w.users.reviewer.id })
+    expect(sub.status, JSON.stringify(sub.data)).toBe(200)
+    expect(sub.data.captures).toEqual(after.data.captures)
   })
 })
 
