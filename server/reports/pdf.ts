@@ -164,7 +164,7 @@ export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts
       doc.rect(left, y, width, rowH + 2).fill(SOFT)
       let x = left
       for (const c of cols) {
-        doc.font('TextBold').fontSize(7.5).fillColor(MUTED).text(pdfText(c.label), x + 3, y + 3.5, { width: c.width - 6, align: c.align ?? 'left', lineBreak: false, ellipsis: true })
+        doc.font('TextBold').fontSize(7.5).fillColor(MUTED).text(pdfText(c.label), x + 3, y + 3.5, { width: c.width - 6, height: rowH - 3, align: c.align ?? 'left', ellipsis: true })
         x += c.width
       }
       doc.y = y + rowH + 2
@@ -176,8 +176,15 @@ export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts
     }
     ensure(rowH * 3)
     drawHeader()
+    /** A cell wraps within its column; the row is as tall as its tallest cell. */
+    const cellHeight = (cell: string, col: (typeof cols)[number]) => {
+      if (col.mono === false) doc.font('Text').fontSize(7.5)
+      else doc.font('Mono').fontSize(7.5)
+      return doc.heightOfString(pdfText(cell), { width: col.width - 6, ...(col.mono === false ? {} : { features: MONO_FEATURES }) })
+    }
     rows.forEach((row, r) => {
-      if (doc.y + rowH > bottom()) {
+      const h = Math.max(rowH, ...row.map((cell, c) => cellHeight(cell, cols[c]!) + 5))
+      if (doc.y + h > bottom()) {
         doc.addPage()
         drawHeader()
       }
@@ -186,12 +193,12 @@ export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts
       row.forEach((cell, c) => {
         const col = cols[c]!
         const colour = opts.rowColour?.(r, c) ?? INK
-        if (col.mono === false) doc.font('Text').fontSize(7.5).fillColor(colour).text(pdfText(cell), x + 3, y + 3, { width: col.width - 6, align: col.align ?? 'left', lineBreak: false, ellipsis: true })
-        else mono(cell, x + 3, y + 3, { size: 7.5, colour, width: col.width - 6, align: col.align ?? 'right', ellipsis: true })
+        if (col.mono === false) doc.font('Text').fontSize(7.5).fillColor(colour).text(pdfText(cell), x + 3, y + 3, { width: col.width - 6, align: col.align ?? 'left' })
+        else doc.font('Mono').fontSize(7.5).fillColor(colour).text(pdfText(cell), x + 3, y + 3, { width: col.width - 6, align: col.align ?? 'right', features: MONO_FEATURES })
         x += col.width
       })
-      doc.moveTo(left, y + rowH).lineTo(left + width, y + rowH).lineWidth(0.3).strokeColor(RULE).stroke()
-      doc.y = y + rowH
+      doc.moveTo(left, y + h).lineTo(left + width, y + h).lineWidth(0.3).strokeColor(RULE).stroke()
+      doc.y = y + h
     })
     doc.x = left
     doc.moveDown(0.4)
