@@ -10,34 +10,16 @@ import { analyzeChain, type ChainAnalysis } from './chain'
 import { EngineInputError } from './errors'
 import { phototransistorAssumptions } from './phototransistor'
 import { analyzeSpi, type SpiResult } from './spi'
-import type { Corners, EdgeShape, Warning } from './types'
+import type { ChainResult, Corners, Warning } from './types'
 import { analyzeUartChannel, type ReceiverEnd, type TransmitterEnd, type UartChannelResult } from './uart'
 import { ENGINE_VERSION } from './version'
 
 export type Verdict = 'pass' | 'marginal' | 'fail'
 
-/** One channel as the result reports it (physical directions at the receiving pin). */
-export interface ChannelResult {
-  id: string
-  role: string
-  /** delay of an edge rising at the receiving pin, seconds {min, typ, max} */
-  rise: Corners
-  fall: Corners
-  /** D_rise - D_fall, worst-case interval, seconds */
-  pwd: { min: number; max: number }
+/** One channel as the result reports it (physical directions at the receiving pin): the chain result without its warnings (they join the link's list), plus what a report shows of it. */
+export interface ChannelResult extends Omit<ChainResult, 'warnings'> {
   /** nominal D_rise - D_fall, seconds */
   pwdTyp: number
-  /** 1-sigma spread of D_rise - D_fall (root-sum-square), seconds */
-  pwdSigma: number
-  polarity: 'kept' | 'inverted'
-  /** received 10-90 % rise / 90-10 % fall time, seconds {typ, max} */
-  tr: { typ: number; max: number }
-  tf: { typ: number; max: number }
-  riseShape: EdgeShape
-  fallShape: EdgeShape
-  jitterRms: number
-  jitterPeak: number
-  partSkew: number
   /** the receiving pin's own contribution to D_rise - D_fall, seconds */
   receiverTerm: Corners
   /** the channel can carry data at all (polarity, reachable thresholds, saturated outputs) */
