@@ -11,6 +11,7 @@ import { Op } from 'sequelize'
 // hashPassword / verifyPassword: nuxt-auth-utils' scrypt helpers, auto-imported by Nitro (no importable path)
 import type { SignInBody, SignUpBody } from '../../shared/schemas/auth'
 import { Membership, PasswordResetToken, SignInAttempt, Team, User } from '../db/models'
+import { forgetSessionRevocation } from '../utils/access'
 import { useDb } from '../utils/db'
 import { ConflictError, InvalidError, RateLimitedError, UnauthorizedError } from '../utils/errors'
 import { sendMail } from '../utils/mail'
@@ -106,10 +107,10 @@ export async function requestPasswordReset(email: string): Promise<(() => Promis
     })
 }
 
-/** Set a new password with a valid, unused, unexpired token; the token is spent. */
+/** Set a new password with a valid, unused, unexpired token; the token is spent and every session signed in before is revoked. */
 export async function completePasswordReset(token: string, password: string): Promise<void> {
   const passwordHash = await hashPassword(password)
-  await useDb().transaction(async (transaction) => {
+  const userId = await useDb().transaction(async (transaction) => {
     const row = await PasswordResetToken.findOne({
       where: { tokenHash: hashToken(token), usedAt: null, expiresAt: { [Op.gt]: new Date() } },
       lock: transaction.LOCK.UPDATE,
@@ -118,10 +119,12 @@ export async function completePasswordReset(token: string, password: string): Pr
     if (!row) throw InvalidError.of(['token'], 'this reset link is invalid, already used or expired; ask for a new one')
     const user = await User.findByPk(row.userId, { transaction, lock: transaction.LOCK.UPDATE })
     if (!user) throw InvalidError.of(['token'], 'this reset link is invalid, already used or expired; ask for a new one')
-    await user.update({ passwordHash }, { transaction })
+    await user.update({ passwordHash, sessionsValidAfter: new Date() }, { transaction })
     await row.update({ usedAt: new Date() }, { transaction })
     await PasswordResetToken.destroy({ where: { userId: user.id, usedAt: null }, transaction })
     // a successful reset lifts the address's sign-in lockout
     await SignInAttempt.destroy({ where: { email: user.email, succeeded: false }, transaction })
+    return user.id
   })
+  forgetSessionRevocation(userId)
 }

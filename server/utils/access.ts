@@ -19,15 +19,45 @@ export interface Access {
 
 /** The signed-in user, or 401. */
 export async function requireUser(event: H3Event): Promise<SessionUser> {
-  const session = await getUserSession(event)
-  if (!session.user) throw new UnauthorizedError()
-  return session.user
+  const user = await getSessionUser(event)
+  if (!user) throw new UnauthorizedError()
+  return user
 }
 
-/** The signed-in user or null (public routes that behave differently when signed in). */
+/**
+ * When each user's sessions became invalid (password reset), cached for a few seconds per
+ * process so that a burst of requests costs one query; another instance sees a reset
+ * within that time.
+ */
+const REVOCATION_TTL_MS = 5000
+const revocations = new Map<number, { validAfter: number; readAt: number }>()
+
+async function sessionsValidAfter(userId: number): Promise<number> {
+  const cached = revocations.get(userId)
+  if (cached && Date.now() - cached.readAt < REVOCATION_TTL_MS) return cached.validAfter
+  const row = await User.findByPk(userId, { attributes: ['id', 'sessionsValidAfter'] })
+  // a deleted account has no valid session at all
+  const validAfter = row ? (row.sessionsValidAfter?.getTime() ?? 0) : Number.POSITIVE_INFINITY
+  if (revocations.size > 10_000) revocations.clear()
+  revocations.set(userId, { validAfter, readAt: Date.now() })
+  return validAfter
+}
+
+/** Forget the cached revocation instant of a user (this process just changed it). */
+export function forgetSessionRevocation(userId: number) {
+  revocations.delete(userId)
+}
+
+/** The signed-in user or null (public routes that behave differently when signed in); a revoked session is cleared. */
 export async function getSessionUser(event: H3Event): Promise<SessionUser | null> {
   const session = await getUserSession(event)
-  return session.user ?? null
+  if (!session.user) return null
+  const loggedInAt = typeof session.loggedInAt === 'number' ? session.loggedInAt : 0
+  if (loggedInAt < (await sessionsValidAfter(session.user.id))) {
+    await clearUserSession(event)
+    return null
+  }
+  return session.user
 }
 
 function allow(role: Role, action: Action) {

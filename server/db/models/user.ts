@@ -6,6 +6,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare name: string
   /** scrypt hash (nuxt-auth-utils / @adonisjs/hash format) */
   declare passwordHash: string
+  /** sessions signed in before this instant are refused (a password reset sets it) */
+  declare sessionsValidAfter: CreationOptional<Date | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
 
@@ -16,6 +18,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         email: { type: DataTypes.STRING(254), allowNull: false, unique: true },
         name: { type: DataTypes.STRING(120), allowNull: false },
         passwordHash: { type: DataTypes.STRING(255), allowNull: false },
+        sessionsValidAfter: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -69,3 +69,22 @@ describe('password reset through the SMTP fake', () => {
     expect(short.data.statusMessage).toMatch(/^password: /)
   })
 })
+
+describe('a password reset revokes the sessions signed in before it', () => {
+  it('signs out every earlier session and keeps the new one', async () => {
+    const { user } = await buildUser({ name: 'Sam Stolenlaptop' })
+    const earlier = apiClient()
+    expect((await earlier.post('/api/auth/sign-in', { email: user.email, password: FACTORY_PASSWORD })).status).toBe(200)
+    expect((await earlier.get('/api/auth/me')).status).toBe(200)
+
+    expect((await apiClient().post('/api/auth/password-reset', { email: user.email })).status).toBe(202)
+    const token = linkIn(await waitForMail(user.email, { subject: 'Reset your Bitslack password' }), '/reset-password').searchParams.get('token')!
+    expect((await apiClient().post('/api/auth/password-reset/complete', { token, password: 'a fresh secret 123' })).status).toBe(204)
+
+    expect((await earlier.get('/api/auth/me')).status).toBe(401)
+    expect((await earlier.get('/api/teams')).status).toBe(401)
+    const later = apiClient()
+    expect((await later.post('/api/auth/sign-in', { email: user.email, password: 'a fresh secret 123' })).status).toBe(200)
+    expect((await later.get('/api/auth/me')).status).toBe(200)
+  })
+})
