@@ -3,15 +3,9 @@
  * is a generic digital isolator channel; replace it from the part library.
  */
 import type { ChannelSpec, LinkInput, StageSpec } from '#shared/schemas/link'
+import { RECEIVER_PRESETS } from '#shared/utils/receiver-presets'
 
 type StageInput = LinkInput['channels'][number]['stages'][number]
-
-/** 3.3 V LVCMOS input thresholds (timing-model.md section 1). */
-export const RECEIVER_PRESETS = [
-  { family: 'LVCMOS 3.3 V', vdd: 3.3, vih: 2.0, vil: 0.8, schmitt: false },
-  { family: 'CMOS 5 V', vdd: 5, vih: 3.5, vil: 1.5, schmitt: false },
-  { family: 'LVCMOS 1.8 V', vdd: 1.8, vih: 1.17, vil: 0.63, schmitt: false },
-] as const
 
 export function blankStage(kind: StageSpec['kind']): StageInput {
   switch (kind) {

@@ -3,10 +3,11 @@
  * number here is invented demo data with class-typical values; none describes a real part.
  */
 import type { LinkInput } from '../../../shared/schemas/link'
+import { RECEIVER_PRESETS } from '../../../shared/utils/receiver-presets'
 
 type StageInput = LinkInput['channels'][number]['stages'][number]
 
-const lvcmos33 = { vdd: 3.3, vih: 2.0, vil: 0.8, schmitt: false, family: 'LVCMOS 3.3 V' }
+const lvcmos33 = RECEIVER_PRESETS[0]
 
 /** Generic 20 %-CTR phototransistor coupler, collector pull-up (inverting), LED lit by a high pin. */
 export const PTC20: StageInput = {
