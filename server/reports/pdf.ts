@@ -241,15 +241,23 @@ export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts
     doc.x = left
     const rows: [string, string][] = []
     if (uart) {
-      const wb = uart.bits[uart.worstBit]
-      rows.push(['Worst margin', `${formatUi(uart.worstMarginUi)} (${eng(wb?.margin, 's')}), required ${formatUi(uart.requiredMarginUi)}: ${stateWord(uart.worstMarginUi, uart.requiredMarginUi)}`])
+      const wb = uart.worstBit === null ? undefined : uart.bits[uart.worstBit]
+      rows.push([
+        'Worst margin',
+        uart.worstMarginUi === null
+          ? `none: ${uart.noMarginReason}`
+          : `${formatUi(uart.worstMarginUi)} (${eng(wb?.margin, 's')}), required ${formatUi(uart.requiredMarginUi)}: ${stateWord(uart.worstMarginUi, uart.requiredMarginUi)}`,
+      ])
       rows.push(['Maximum baud', `${eng(uart.maxBaud, 'Bd', 4)} (configured ${eng(uart.baud, 'Bd', 4)})`])
       if (wb) rows.push(['Limited by', `bit ${wb.label}, ${wb.side} side: ${LIMIT_WORDS[wb.limitedBy] ?? wb.limitedBy}`])
       rows.push(['Note', uart.maxBaudNote])
     }
     if (spi) {
       const wc = spi.checks.find((c) => c.id === spi.worstCheck)
-      rows.push(['Worst slack', `${eng(spi.worstSlack, 's')} (${spi.worstCheck}), required ${eng(wc?.required ?? 0, 's')}: ${stateWord(spi.worstSlack, wc?.required ?? 0)}`])
+      rows.push([
+        'Worst slack',
+        spi.worstSlack === null ? `none: ${spi.noSlackReason}` : `${eng(spi.worstSlack, 's')} (${spi.worstCheck}), required ${eng(wc?.required ?? 0, 's')}: ${stateWord(spi.worstSlack, wc?.required ?? 0)}`,
+      ])
       rows.push(['Maximum SCLK', `${eng(spi.maxSclkHz, 'Hz', 4)} (configured ${eng(spi.sclkHz, 'Hz', 4)}, mode ${spi.mode})`])
       rows.push(['Limited by', spi.limitingCheck ? `${spi.limitingCheck}: ${spi.checks.find((c) => c.id === spi.limitingCheck)?.description ?? ''}` : 'no check up to the SCLK limit'])
       rows.push(['Round trip', `${eng(spi.roundTrip.min, 's')} to ${eng(spi.roundTrip.max, 's')}`])
@@ -665,7 +673,7 @@ function drawRateSweep(doc: Doc, u: UartChannelResult, x0: number, y0: number, w
   for (const p of pts.slice(1)) doc.lineTo(X(p.baud), Y(p.marginUi))
   doc.lineWidth(1.2).strokeColor(HEALTHY).stroke()
   // configured rate
-  if (u.baud >= pts[0]!.baud && u.baud <= pts[pts.length - 1]!.baud) {
+  if (u.worstMarginUi !== null && u.baud >= pts[0]!.baud && u.baud <= pts[pts.length - 1]!.baud) {
     const cx = X(u.baud)
     const cy = Y(u.worstMarginUi)
     doc.circle(cx, cy, 2.5).fill(stateColour(u.worstMarginUi, u.requiredMarginUi))

@@ -8,7 +8,7 @@ import type { z } from 'zod'
 import { LinkSpec, type Link, type UartSettings } from '../../shared/schemas/link'
 import { analyzeChain, type ChainAnalysis } from './chain'
 import { EngineInputError } from './errors'
-import { phototransistorAssumptions } from './phototransistor'
+import { phototransistorAssumptions, type CouplerModelInfo } from './phototransistor'
 import { analyzeSpi, type SpiResult } from './spi'
 import type { ChainResult, Corners, Warning } from './types'
 import { analyzeUartChannel, type ReceiverEnd, type TransmitterEnd, type UartChannelResult } from './uart'
@@ -38,6 +38,8 @@ export interface ChannelResult extends Omit<ChainResult, 'warnings'> {
     /** the sign with which that enters the chain PWD */
     sign: 1 | -1
     operating?: { ledCurrent: number; icRequired: number; icAvailable: number; overdrive: number; saturated: boolean; power: number }
+    /** the calibrated phototransistor model (phototransistor stages) */
+    coupler?: CouplerModelInfo
   }[]
 }
 
@@ -96,15 +98,15 @@ export function analyzeLink(input: z.input<typeof LinkSpec> | Link): LinkAnalysi
   const warnings: Warning[] = []
   const assumptions = [...GENERAL_ASSUMPTIONS]
 
-  const chains: ChainAnalysis[] = link.channels.map((ch) => analyzeChain(ch))
-  const functional = chains.map((c, i) => {
-    const rx = link.channels[i]!.receiver
-    const inverted = (c.polarity === 'inverted') !== (rx.invert ?? false)
-    const unsaturated = c.stages.some((s) => s.operating && !s.operating.saturated)
-    return c.reachable && !inverted && !unsaturated
-  })
+  const chains: ChainAnalysis[] = link.channels.map((ch, i) => analyzeChain(ch, { path: ['channels', i] }))
+  const notFunctional = chains.map((c, i) => notFunctionalReason(c, link.channels[i]!))
+  const functional = notFunctional.map((r) => r === null)
   for (const c of chains) warnings.push(...c.warnings)
   if (link.channels.some((ch) => ch.stages.some((s) => s.kind === 'phototransistor'))) assumptions.push(...phototransistorAssumptions())
+  for (const ch of link.channels)
+    for (const st of ch.stages)
+      if (st.kind === 'digital' && st.failsafe)
+        assumptions.push(`Stage '${st.name}' (${ch.id}): when its input side loses supply, its output goes ${st.failsafe} (the part's default output state); a ${st.failsafe === 'high' ? 'UART line reads idle' : 'UART line reads a break'}.`)
   const noEdge = link.channels.flatMap((ch) => ch.stages.filter((s) => s.kind === 'digital' && (!s.tr || !s.tf)).map((s) => `'${s.name}' (${ch.id})`))
   if (noEdge.length) assumptions.push(`Stages without a stated tr or tf, taken as ideal edges: ${noEdge.join(', ')}.`)
 
@@ -138,6 +140,7 @@ export function analyzeLink(input: z.input<typeof LinkSpec> | Link): LinkAnalysi
       asymmetry: s.asymmetry,
       sign: s.sign,
       ...(s.operating ? { operating: s.operating } : {}),
+      ...(s.coupler ? { coupler: s.coupler } : {}),
     })),
   }))
 
@@ -166,23 +169,25 @@ export function analyzeLink(input: z.input<typeof LinkSpec> | Link): LinkAnalysi
         rxKey: ends.rxKey,
         chain: { pwd: chain.pwd, jitterPeak: chain.jitterPeak, jitterRms: chain.jitterRms, pwdTyp: chain.pwdTyp, pwdSigma: chain.pwdSigma },
         receiverInvert: ch.receiver.invert ?? false,
-        functionalFailure: !functional[ci],
+        notFunctional: notFunctional[ci],
+        pulseLimit: pulseLimitOf(ch),
         path: ['uart'],
       })
       warnings.push(...r.warnings)
       return r
     })
+    // the worst direction: one without a margin first, else the smallest margin
     let worst = byChannel[0]!
-    for (const r of byChannel) if (r.worstMarginUi < worst.worstMarginUi) worst = r
+    for (const r of byChannel) if (rank(r) < rank(worst)) worst = r
     uart = { ...worst, byChannel }
     verdict = worseOf(byChannel.map((r) => r.verdict))
   }
 
   if (link.protocol === 'spi' && link.spi) {
-    spi = analyzeSpi(link, chains)
+    spi = analyzeSpi(link, chains, notFunctional)
     warnings.push(...spi.warnings)
     assumptions.push(...spi.assumptions)
-    verdict = spi.pass ? 'pass' : spi.worstSlack >= 0 ? 'marginal' : 'fail'
+    verdict = spi.pass ? 'pass' : spi.worstSlack !== null && spi.worstSlack >= 0 ? 'marginal' : 'fail'
   }
 
   if (functional.some((f) => !f)) verdict = 'fail'
@@ -199,6 +204,33 @@ export function analyzeLink(input: z.input<typeof LinkSpec> | Link): LinkAnalysi
   }
   assertFinite(result)
   return result
+}
+
+/** Why a channel cannot carry data at all, in words; null when it can. */
+export function notFunctionalReason(c: ChainAnalysis, ch: Link['channels'][number]): string | null {
+  const reasons: string[] = []
+  if (!c.reachable) reasons.push('a threshold lies outside the swing that should cross it')
+  if ((c.polarity === 'inverted') !== (ch.receiver.invert ?? false)) reasons.push('it ends with the wrong polarity')
+  for (const s of c.stages)
+    if (s.operating && !s.operating.saturated)
+      reasons.push(s.operating.ledCurrent > 0 ? `the output of stage '${s.name}' does not saturate` : `the LED of stage '${s.name}' never lights`)
+  return reasons.length ? reasons.join('; ') : null
+}
+
+/** The longest shortest-pulse the channel's digital stages need (minimum pulse width, glitch filter, maximum data rate). */
+export function pulseLimitOf(ch: Link['channels'][number]): { seconds: number; stage: string } | null {
+  let out: { seconds: number; stage: string } | null = null
+  for (const s of ch.stages) {
+    if (s.kind !== 'digital') continue
+    const need = Math.max(s.minPulseWidth ?? 0, s.glitchFilter ?? 0, s.maxDataRate ? 1 / s.maxDataRate : 0)
+    if (need > 0 && (!out || need > out.seconds)) out = { seconds: need, stage: s.name }
+  }
+  return out
+}
+
+/** Order of UART directions from worst: no margin, then the smallest margin. */
+function rank(r: UartChannelResult): number {
+  return r.worstMarginUi === null ? -Infinity : r.worstMarginUi
 }
 
 function worseOf(vs: Verdict[]): Verdict {

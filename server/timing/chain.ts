@@ -18,7 +18,10 @@
  */
 import type { ChannelSpec, ThresholdSpec } from '../../shared/schemas/link'
 import { thresholdFraction, thresholdOffset, type Direction } from './edges'
-import type { PhototransistorOperating } from './phototransistor'
+import type { CouplerModelInfo, PhototransistorOperating } from './phototransistor'
+import { formatEng } from '../../shared/utils/units'
+import { DEFAULT_MAX_INPUT_TRANSITION } from '../../shared/utils/receiver-presets'
+import { EngineInputError } from './errors'
 import { reduceStage } from './stages'
 import type { ChainResult, Corners, EdgeShape, StageEdgeModel, Warning } from './types'
 
@@ -45,6 +48,7 @@ export interface StageContribution {
   /** +1 or -1: the sign with which the asymmetry enters D_rise - D_fall at the receiving pin */
   sign: 1 | -1
   operating?: PhototransistorOperating
+  coupler?: CouplerModelInfo
 }
 
 /** ChainResult plus what the report and the spread study need to see inside it. */
@@ -74,19 +78,25 @@ function offsetCorners(direction: Direction, edge: EdgeState, xs: readonly numbe
   return { min, typ: thresholdOffset(direction, edge.shape, edge.transition.typ, xTyp), max }
 }
 
+/** Where a stage's input switches, as fractions of the driving swing: the range and the typical value. */
+interface InputThreshold {
+  xs: number[]
+  typ: number
+}
+
 /**
  * A stage's output edge in direction `o` and the threshold offset of its own input: the
  * input edge (the other direction when the stage inverts) plus the offset at the stage's
  * input threshold plus tPLH or tPHL; a pass-through direction carries the input edge on.
  */
-function stageOutput(model: StageEdgeModel, o: Direction, up: EdgeState, down: EdgeState, xRise: number, xFall: number): { edge: EdgeState; offset: Corners } {
+function stageOutput(model: StageEdgeModel, o: Direction, up: EdgeState, down: EdgeState, rise: InputThreshold, fall: InputThreshold): { edge: EdgeState; offset: Corners } {
   const delay = o === 'rise' ? model.tplh : model.tphl
   const pass = !model.inverting && model.passThrough?.[o]
   const inDir = model.inverting ? flipDir(o) : o
   const input = inDir === 'rise' ? up : down
   if (pass) return { edge: { ...input, delay: add(input.delay, delay) }, offset: { min: 0, typ: 0, max: 0 } }
-  const x = inDir === 'rise' ? xRise : xFall
-  const offset = offsetCorners(inDir, input, [x], x)
+  const th = inDir === 'rise' ? rise : fall
+  const offset = offsetCorners(inDir, input, th.xs, th.typ)
   return {
     edge: {
       delay: add(add(input.delay, offset), delay),
@@ -99,6 +109,13 @@ function stageOutput(model: StageEdgeModel, o: Direction, up: EdgeState, down: E
   }
 }
 
+/** x of a threshold in an edge's swing, clamped into (0, 1) without a warning (the range's checks warn). */
+function fractionQuiet(v: number, edge: EdgeState): number {
+  const span = edge.vHigh - edge.vLow
+  const x = span > 0 ? thresholdFraction(v, edge.vLow, edge.vHigh) : 0.5
+  return Math.min(0.99, Math.max(0.01, x))
+}
+
 /** A threshold as its [low, high] range and typical value, volts. */
 function thresholdRange(t: ThresholdSpec): { lo: number; hi: number; typ: number } {
   return typeof t === 'number' ? { lo: t, hi: t, typ: t } : { lo: t.min, hi: t.max, typ: (t.min + t.max) / 2 }
@@ -107,10 +124,11 @@ function thresholdRange(t: ThresholdSpec): { lo: number; hi: number; typ: number
 /**
  * Propagate a channel's edges and build its chain result.
  * @param channel the validated channel (schema defaults applied)
- * @param _options.path where the channel sits in the link; accepted for callers that pass
- *   it, though nothing here fails any more (warnings carry the channel id and stage index)
+ * @param options.path where the channel sits in the link (['channels', i]): an input that
+ *   cannot be computed is rejected with an EngineInputError naming the field under it
  */
-export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | number)[] } = {}): ChainAnalysis {
+export function analyzeChain(channel: ChannelSpec, options: { path?: (string | number)[] } = {}): ChainAnalysis {
+  const path = options.path ?? []
   const rx = channel.receiver
   const warnings: Warning[] = []
   let reachable = true
@@ -119,6 +137,23 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
   let up: EdgeState = { delay: { min: 0, typ: 0, max: 0 }, transition: { typ: 0, max: 0 }, shape: 'ramp', vLow: 0, vHigh: rx.vdd }
   let down: EdgeState = { ...up }
 
+  // Threshold fractions, checked against the swing that must cross them.
+  const fraction = (v: number, edge: EdgeState, field: string): number => {
+    const span = edge.vHigh - edge.vLow
+    const x = span > 0 ? thresholdFraction(v, edge.vLow, edge.vHigh) : 0.5
+    if (!(span > 0) || x <= 0 || x >= 1) {
+      if (reachable)
+        warnings.push({
+          code: 'threshold-unreachable',
+          channel: channel.id,
+          message: `Channel '${channel.id}': the ${field} threshold ${formatEng(v, 'V')} is outside the swing ${formatEng(edge.vLow, 'V')}..${formatEng(edge.vHigh, 'V')} that drives it, so the input never switches there. The link cannot work.`,
+        })
+      reachable = false
+      return Math.min(0.99, Math.max(0.01, x))
+    }
+    return x
+  }
+
   const stages: StageContribution[] = []
   let jitterVar = 0
   let jitterPeak = 0
@@ -126,12 +161,33 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
 
   for (let i = 0; i < channel.stages.length; i++) {
     const stage = channel.stages[i]!
-    const { model, warnings: stageWarnings, operating } = reduceStage(stage, rx)
+    let reduced
+    try {
+      reduced = reduceStage(stage, rx)
+    } catch (err) {
+      if (err instanceof EngineInputError) throw new EngineInputError([...path, 'stages', i, ...err.path], err.message)
+      throw err
+    }
+    const { model, warnings: stageWarnings, operating, coupler } = reduced
     // a stage's own warnings carry code and message; the chain adds where they come from
     for (const w of stageWarnings) warnings.push({ code: w.code, message: w.message, channel: channel.id, stage: i })
 
-    const xRise = stage.inputThreshold?.rise ?? 0.5
-    const xFall = stage.inputThreshold?.fall ?? 0.5
+    // the stage's own input: a Schmitt input of a buffer at VT+ / VT- (volts, ranges), else
+    // fractions of the previous swing (50 % unless the stage states its own)
+    let thRise: InputThreshold
+    let thFall: InputThreshold
+    if (stage.kind === 'digital' && stage.schmittInput) {
+      const p = thresholdRange(stage.schmittInput.vtPlus)
+      const m = thresholdRange(stage.schmittInput.vtMinus)
+      const where = `stage '${stage.name}' input`
+      thRise = { xs: [fraction(p.lo, up, `${where} VT+`), fraction(p.hi, up, `${where} VT+`)], typ: fraction(p.typ, up, `${where} VT+`) }
+      thFall = { xs: [fraction(m.lo, down, `${where} VT-`), fraction(m.hi, down, `${where} VT-`)], typ: fraction(m.typ, down, `${where} VT-`) }
+    } else {
+      const xRise = stage.inputThreshold?.rise ?? 0.5
+      const xFall = stage.inputThreshold?.fall ?? 0.5
+      thRise = { xs: [xRise], typ: xRise }
+      thFall = { xs: [xFall], typ: xFall }
+    }
 
     // Asymmetry of the stage's own delays, tPLH - tPHL, tightened by PWD max.
     let asymLo = model.tplh.min - model.tphl.max
@@ -155,8 +211,8 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
     }
     const asymTyp = Math.min(asymHi, Math.max(asymLo, model.tplh.typ - model.tphl.typ))
 
-    const r = stageOutput(model, 'rise', up, down, xRise, xFall)
-    const f = stageOutput(model, 'fall', up, down, xRise, xFall)
+    const r = stageOutput(model, 'rise', up, down, thRise, thFall)
+    const f = stageOutput(model, 'fall', up, down, thRise, thFall)
     stages.push({
       index: i,
       name: stage.name,
@@ -170,6 +226,7 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
       },
       sign: 1,
       ...(operating ? { operating } : {}),
+      ...(coupler ? { coupler } : {}),
     })
     up = r.edge
     down = f.edge
@@ -186,23 +243,6 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
   }
   const polarity = after % 2 === 0 ? 'kept' : 'inverted'
 
-  // Threshold fractions at the receiving pin, checked against the swing that must cross them.
-  const fraction = (v: number, edge: EdgeState, field: string): number => {
-    const span = edge.vHigh - edge.vLow
-    const x = span > 0 ? thresholdFraction(v, edge.vLow, edge.vHigh) : 0.5
-    if (!(span > 0) || x <= 0 || x >= 1) {
-      if (reachable)
-        warnings.push({
-          code: 'threshold-unreachable',
-          channel: channel.id,
-          message: `Channel '${channel.id}': the receiver threshold ${field} = ${v} V is outside the swing ${edge.vLow}..${edge.vHigh} V that drives it, so the input never switches there. The link cannot work; the timing shown clamps the threshold into the swing.`,
-        })
-      reachable = false
-      return Math.min(0.99, Math.max(0.01, x))
-    }
-    return x
-  }
-
   let recvRise: Corners
   let recvFall: Corners
   let receiverTerm: Corners
@@ -218,8 +258,11 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
   } else {
     const xUp = [fraction(rx.vil, up, 'VIL'), fraction(rx.vih, up, 'VIH')]
     const xDown = [fraction(rx.vil, down, 'VIL'), fraction(rx.vih, down, 'VIH')]
-    recvRise = offsetCorners('rise', up, xUp, 0.5)
-    recvFall = offsetCorners('fall', down, xDown, 0.5)
+    // the typical switching point: half the receiver's supply, kept within VIL..VIH (a 5 V
+    // swing into a 3.3 V input switches near 1.65 V, not at 2.5 V)
+    const vTyp = Math.min(rx.vih, Math.max(rx.vil, rx.vdd / 2))
+    recvRise = offsetCorners('rise', up, xUp, fractionQuiet(vTyp, up))
+    recvFall = offsetCorners('fall', down, xDown, fractionQuiet(vTyp, down))
     // A plain CMOS input has one switching threshold somewhere in VIL..VIH, the same for
     // both edges of one part: D_rise - D_fall is monotone in it, so its extremes are at
     // VIL and VIH with each edge's transition time at its typ or max.
@@ -237,6 +280,27 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
 
   const rise = add(up.delay, recvRise)
   const fall = add(down.delay, recvFall)
+  if (reachable && stages.length)
+    for (const [edge, d, q] of [
+      ['rising', rise, 'tplh'],
+      ['falling', fall, 'tphl'],
+    ] as const)
+      if (d.min < -(1e-15 + 1e-9 * Math.abs(d.max))) {
+        // the receiving pin's edge comes from the last stage's output in the same direction
+        const last = stages.length - 1
+        throw new EngineInputError(
+          [...path, 'stages', last, q],
+          `the ${edge} edge reaches the receiver ${formatEng(-d.min, 's')} before the driving edge: the last stage's ${q === 'tplh' ? 'tPLH' : 'tPHL'} minimum is too small for its transition time and the receiver's threshold; check ${q}.min and the transition time`,
+        )
+      }
+  if (!reachable) {
+    // a chain that cannot switch reports no negative time (its margins are not computed)
+    for (const d of [rise, fall]) {
+      d.min = Math.max(0, d.min)
+      d.typ = Math.max(d.min, d.typ)
+      d.max = Math.max(d.typ, d.max)
+    }
+  }
   let pwdMin = receiverTerm.min
   let pwdMax = receiverTerm.max
   let pwdVar = ((receiverTerm.max - receiverTerm.min) / 6) ** 2
@@ -253,13 +317,15 @@ export function analyzeChain(channel: ChannelSpec, _options: { path?: (string | 
 
   const tr = { ...up.transition }
   const tf = { ...down.transition }
-  if (!rx.schmitt && rx.maxInputTransition !== undefined) {
+  if (!rx.schmitt) {
+    // a plain input always has a limit: the receiver's own, else the common-practice default
+    const limit = rx.maxInputTransition ?? DEFAULT_MAX_INPUT_TRANSITION
     const worst = Math.max(tr.max, tf.max)
-    if (worst > rx.maxInputTransition)
+    if (worst > limit)
       warnings.push({
         code: 'slow-edge',
         channel: channel.id,
-        message: `Channel '${channel.id}': the received ${tr.max >= tf.max ? 'rise' : 'fall'} time ${worst.toExponential(3)} s exceeds the receiver's maximum input transition ${rx.maxInputTransition.toExponential(3)} s on a non-Schmitt input; the input may oscillate or draw shoot-through current. Use a Schmitt-trigger input or a faster edge (smaller pull-up).`,
+        message: `Channel '${channel.id}': the received ${tr.max >= tf.max ? 'rise' : 'fall'} time ${formatEng(worst, 's')} exceeds ${rx.maxInputTransition !== undefined ? "the receiver's maximum input transition" : 'the default limit for a plain CMOS input (no maximum input transition given)'} ${formatEng(limit, 's')} on a non-Schmitt input; the input may oscillate or draw shoot-through current. Use a Schmitt-trigger input or buffer, or a faster edge (smaller pull-up).`,
       })
   }
 

@@ -16,6 +16,10 @@ export interface BaudGeneratorResult {
   actualBaud: number
   /** actualBaud / baud - 1 (signed fraction; +0.0064 = +0.64 %) */
   error: number
+  /** false when the rate needs a divisor below 1: the generator cannot produce it (the divisor is held at 1) */
+  reachable: boolean
+  /** the divisor has a fractional part: the tick periods alternate and the samples are unevenly spaced */
+  fractional: boolean
 }
 
 /**
@@ -32,9 +36,10 @@ export function baudGenerator(clockHz: number, oversampling: number, fractionBit
   if (!(baud > 0) || !Number.isFinite(baud)) throw new EngineInputError(['baud'], 'baud must be a positive number')
   const steps = 2 ** fractionBits
   const exact = clockHz / (oversampling * baud)
-  const divisor = Math.max(1, Math.round(exact * steps) / steps)
+  const rounded = Math.round(exact * steps) / steps
+  const divisor = Math.max(1, rounded)
   const actualBaud = clockHz / (oversampling * divisor)
-  return { divisor, actualBaud, error: actualBaud / baud - 1 }
+  return { divisor, actualBaud, error: actualBaud / baud - 1, reachable: rounded >= 1, fractional: divisor !== Math.floor(divisor) }
 }
 
 /** The clock fields of one UART end, as in the link schema. */
@@ -85,4 +90,14 @@ export function rateErrorBounds(spec: ClockSpec, baud: number, oversampling: num
  */
 export function bitTimeBounds(bounds: Pick<RateErrorBounds, 'min' | 'max'>, baud: number): { min: number; max: number } {
   return { min: 1 / (baud * (1 + bounds.max)), max: 1 / (baud * (1 + bounds.min)) }
+}
+
+/**
+ * The error bound an end states for itself, independent of the rate: +-errorPpm, or a
+ * generator's oscillator tolerance (its quantisation error depends on the rate and is
+ * left to the standard-rates table). The maximum-baud search and the rate sweep use it.
+ */
+export function statedErrorBounds(spec: ClockSpec): { min: number; max: number } {
+  const ppm = spec.clockHz !== undefined ? (spec.tolerancePpm ?? spec.errorPpm ?? 0) : (spec.errorPpm ?? 0)
+  return { min: -ppm * 1e-6, max: ppm * 1e-6 }
 }

@@ -1,57 +1,61 @@
 /**
- * Phototransistor coupler stage (timing-model.md section 5): the LED and output
- * operating point, the absolute-maximum checks, and the switching times fitted from
- * the user's characterisation points, reduced to the chain's StageEdgeModel.
+ * Phototransistor coupler stage (timing-model.md section 5): the LED and output operating
+ * point, the absolute-maximum checks, and the switching times predicted by the calibrated
+ * charge-control model of `coupler.ts`, reduced to the chain's StageEdgeModel.
  *
- * Assumptions (also returned by `phototransistorAssumptions()` for the report):
- * - Datasheet curves of tPLH / tPHL / tr / tf against RL are typical values. The
- *   fitted value is the typical corner. When the stage states `partSkew` (spread
- *   between the shortest and the longest delay across parts), the delay corners are
- *   typ -/+ partSkew/2; otherwise they are typ x (1 -/+ TYPICAL_SPREAD). Transition
- *   times get max = typ x (1 + TYPICAL_SPREAD) either way.
- * - CTR is taken at its stated minimum times both derating factors, independent of
- *   the LED current (the stage has no CTR-versus-IF curve); a warning says so when
- *   the LED runs well below the CTR test current.
- * - The load-capacitance term applies to the passive direction only (the pull-up or
- *   emitter resistor charging the load): 2.197 RL dC on its transition time and
- *   0.693 RL dC on its delay, dC = stage load minus the point's load.
- * - Power is the static on-state dissipation (LED held on), worst case over every
- *   part whose CTR is at least the derated minimum.
+ * The model is calibrated from the stage's characterisation points (one point is enough;
+ * more are fitted by least squares) and predicts the four times at the stage's own pull-up,
+ * LED current, load capacitance and base-emitter resistor. Its corners:
+ * - typical: the model at the stage's operating point;
+ * - delays: typ -/+ partSkew/2 when partSkew is given, else typ x (1 -/+ TYPICAL_SPREAD);
+ *   transitions: max = typ x (1 + TYPICAL_SPREAD);
+ * - the corners are widened to cover every hypothesis the engine had to make (without a
+ *   stated typical CTR, the model calibrated at each multiple of CTR_TYP_BRACKET), and, outside
+ *   the characterised range, the slow corners are never faster than the model at the range's
+ *   nearest edge (the range is the box of the points' pull-ups, LED currents and loads).
  */
-import type { PhototransistorStage } from '../../shared/schemas/link'
+import type { CharacterizationPoint, PhototransistorStage } from '../../shared/schemas/link'
+import {
+  CTR_TYP_BRACKET,
+  ctrTypOf,
+  DEFAULT_HFE,
+  driverCurrentMaxOf,
+  driverDropOf,
+  ledCurrentOf,
+  POINT_DEFAULT_LED_CURRENT,
+  POINT_DEFAULT_LOAD_CAP,
+  rbeDivertedCurrent,
+  VBE_HIGH,
+} from '../../shared/utils/coupler'
+import { formatEng } from '../../shared/utils/units'
+import {
+  calibrate,
+  predictSwitching,
+  SWITCHING_QUANTITIES,
+  type Calibration,
+  type CalibrationPoint,
+  type ChargeControlParams,
+  type CouplerOperatingPoint,
+  type CouplerSwitching,
+  type SwitchingQuantity,
+} from './coupler'
 import type { Corners, EdgeShape, StageEdgeModel, Warning } from './types'
 
-/** Relative spread of a typical curve value used for min/max when no partSkew is given. */
+export { ledCurrentOf }
+
+/** Relative spread of a typical value used for min/max when no partSkew is given. */
 export const TYPICAL_SPREAD = 0.3
 
-/** ln 9: 10-90 % time of a single-pole exponential edge, in units of tau. */
-const LN9 = Math.log(9)
-/** ln 2: 50 % point of a single-pole exponential edge, in units of tau. */
-const LN2 = Math.LN2
+/**
+ * The generic phototransistor coupler class (20 % CTR minimum, about 75 % typical, open
+ * base) as calibrated from the transistor-level reference `bench/coupler.cir` at 5 V,
+ * 4.7 kOhm and 10 mA. A parameter that a stage's points do not determine stays near it.
+ */
+export const CLASS_PRIOR: ChargeControlParams = { tauS: 7.93e-6, cMiller: 1.27e-9, tauLed: 4.15e-6, qOn: 7.9e-11 }
 
-/** One of the four characterised quantities. */
+/** One of the four characterised quantities, named by the OUTPUT's direction. */
 export type CharQuantity = 'tplh' | 'tphl' | 'tr' | 'tf'
 export const CHAR_QUANTITIES: readonly CharQuantity[] = ['tplh', 'tphl', 'tr', 'tf']
-
-/** A straight-line fit t = a + b * RL of one characterised quantity. */
-export interface LinearFit {
-  quantity: CharQuantity
-  /** least-squares: a + b*RL over >= 2 distinct RL; proportional: one RL, t = b*RL; none: no point */
-  method: 'least-squares' | 'proportional' | 'none'
-  /** intercept, seconds */
-  a: number
-  /** slope, seconds per ohm */
-  b: number
-  /** number of points used */
-  points: number
-  /** RL range of the points, ohms (0 when no point) */
-  rlMin: number
-  rlMax: number
-  /** root-mean-square residual of the fit, seconds (0 for one point) */
-  rmsResidual: number
-  /** largest absolute residual, seconds */
-  maxResidual: number
-}
 
 /** Which output direction is passive (a resistor charges the load): follows from the wiring. */
 export function passiveDirection(wiring: 'collector' | 'emitter'): 'rise' | 'fall' {
@@ -66,96 +70,14 @@ export function phototransistorInverts(wiring: 'collector' | 'emitter', ledOnWhe
   return ledOnWhen === 'low' ? !wiringInverts : wiringInverts
 }
 
-/** Least-squares straight line through (rl, t) points; one distinct RL gives t proportional to RL. */
-export function fitLine(quantity: CharQuantity, pts: ReadonlyArray<{ rl: number; t: number }>): LinearFit {
-  const n = pts.length
-  if (n === 0) return { quantity, method: 'none', a: 0, b: 0, points: 0, rlMin: 0, rlMax: 0, rmsResidual: 0, maxResidual: 0 }
-  let rlMin = Infinity
-  let rlMax = -Infinity
-  let sx = 0
-  let sy = 0
-  for (const p of pts) {
-    rlMin = Math.min(rlMin, p.rl)
-    rlMax = Math.max(rlMax, p.rl)
-    sx += p.rl
-    sy += p.t
-  }
-  const mx = sx / n
-  const my = sy / n
-  let sxx = 0
-  let sxy = 0
-  for (const p of pts) {
-    sxx += (p.rl - mx) * (p.rl - mx)
-    sxy += (p.rl - mx) * (p.t - my)
-  }
-  let a: number
-  let b: number
-  let method: LinearFit['method']
-  // distinct RL values: the spread must be more than rounding noise of the RL values
-  if (rlMax - rlMin > 1e-9 * rlMax && sxx > 0) {
-    b = sxy / sxx
-    a = my - b * mx
-    method = 'least-squares'
-  } else {
-    // one RL (possibly repeated): switching time scaled in proportion to RL
-    a = 0
-    b = my / mx
-    method = 'proportional'
-  }
-  let ss = 0
-  let maxResidual = 0
-  for (const p of pts) {
-    const r = p.t - (a + b * p.rl)
-    ss += r * r
-    maxResidual = Math.max(maxResidual, Math.abs(r))
-  }
-  return { quantity, method, a, b, points: n, rlMin, rlMax, rmsResidual: Math.sqrt(ss / n), maxResidual }
-}
-
-/** Evaluate a fit at RL, seconds (never below 0). */
-export function evalFit(fit: LinearFit, rl: number): number {
-  return Math.max(0, fit.a + fit.b * rl)
-}
-
-type StageLike = Pick<PhototransistorStage, 'characterization'> & {
-  wiring?: 'collector' | 'emitter'
-  loadCap?: number
-}
-
 /**
- * Fit every characterised quantity of a stage as t = a + b*RL. Each point is first
- * moved to the stage's load capacitance (the passive direction's tr/tf and delay get
- * the RC term for the point's own load difference), so points taken at different
- * loads fit one line.
+ * The model's quantities (turn-off: tplh, tr; turn-on: tphl, tf, as a collector output
+ * sees them) for each output quantity of the stage: a collector output rises when the LED
+ * goes dark, an emitter output falls.
  */
-export function fitCharacterization(stage: StageLike): Record<CharQuantity, LinearFit> {
-  const passive = passiveDirection(stage.wiring ?? 'collector')
-  const cStage = stage.loadCap ?? 0
-  const out = {} as Record<CharQuantity, LinearFit>
-  for (const q of CHAR_QUANTITIES) {
-    const pts: { rl: number; t: number }[] = []
-    for (const p of stage.characterization) {
-      const t = p[q]
-      if (t === undefined) continue
-      const dC = cStage - (p.loadCap ?? cStage)
-      pts.push({ rl: p.rl, t: t + loadTerm(q, passive, p.rl, dC) })
-    }
-    out[q] = fitLine(q, pts)
-  }
-  return out
-}
-
-/** The load-capacitance correction of one quantity, seconds (may be negative for a lighter load). */
-function loadTerm(q: CharQuantity, passive: 'rise' | 'fall', rl: number, dC: number): number {
-  if (dC === 0) return 0
-  if (passive === 'rise') {
-    if (q === 'tr') return LN9 * rl * dC
-    if (q === 'tplh') return LN2 * rl * dC
-  } else {
-    if (q === 'tf') return LN9 * rl * dC
-    if (q === 'tphl') return LN2 * rl * dC
-  }
-  return 0
+function modelQuantity(wiring: 'collector' | 'emitter', q: CharQuantity): SwitchingQuantity {
+  if (wiring === 'collector') return q
+  return q === 'tplh' ? 'tphl' : q === 'tphl' ? 'tplh' : q === 'tr' ? 'tf' : 'tr'
 }
 
 /** Static operating point of the stage. */
@@ -164,7 +86,7 @@ export interface PhototransistorOperating {
   ledCurrent: number
   /** collector current needed to pull the output to VCE(sat), amperes */
   icRequired: number
-  /** collector current available with the derated minimum CTR, amperes */
+  /** collector current available with the derated minimum CTR, less what R_BE diverts, amperes */
   icAvailable: number
   /** icAvailable / icRequired (>= 1 saturates) */
   overdrive: number
@@ -173,28 +95,29 @@ export interface PhototransistorOperating {
   power: number
 }
 
-/** The assumptions this module makes, in words for the report. */
-export function phototransistorAssumptions(): string[] {
-  const pct = Math.round(TYPICAL_SPREAD * 100)
-  return [
-    `Phototransistor switching times are typical curve values: delay corners are typ -/+ partSkew/2 when partSkew is given, else typ -/+ ${pct} %; transition max = typ + ${pct} %.`,
-    'Phototransistor CTR is the stated minimum times the temperature and end-of-life derating, independent of LED current.',
-    'The load-capacitance correction (2.197 RL dC on the transition, 0.693 RL dC on the delay) applies to the passive output direction only.',
-    'Coupler power is the static on-state dissipation, worst case over parts with at least the derated minimum CTR.',
-  ]
-}
-
-const eng = (v: number, unit: string): string => {
-  const a = Math.abs(v)
-  const [s, p] =
-    a === 0 ? [1, ''] : a >= 1e6 ? [1e-6, 'M'] : a >= 1e3 ? [1e-3, 'k'] : a >= 1 ? [1, ''] : a >= 1e-3 ? [1e3, 'm'] : a >= 1e-6 ? [1e6, 'u'] : [1e9, 'n']
-  return `${Number((v * s).toPrecision(3))} ${p}${unit}`
-}
-
-/** LED forward current from the drive: (Vdrive - VF) / R_LED, or the stated current. */
-export function ledCurrentOf(stage: Pick<PhototransistorStage, 'driveVoltage' | 'vf' | 'rLed' | 'ledCurrent'>): number {
-  if (stage.rLed !== undefined) return Math.max(0, (stage.driveVoltage - stage.vf) / stage.rLed)
-  return Math.max(0, stage.ledCurrent ?? 0)
+/** What the calibrated model says about the stage, for the form and the report. */
+export interface CouplerModelInfo {
+  /** calibrated charge-control parameters (at the stated or assumed typical CTR) */
+  params: ChargeControlParams
+  /** how well they reproduce the points: relative residuals */
+  fit: { values: number; points: number; rmsRelative: number; maxRelative: number; residuals: Calibration['residuals'] }
+  /** the typical CTR used, fraction, and whether it was assumed */
+  ctrTyp: number
+  ctrTypAssumed: boolean
+  /** the output transistor's gain used, and whether it was assumed */
+  hfe: number
+  hfeAssumed: boolean
+  /** at the stage's operating point: storage delay and edge time constant, seconds; typical overdrive */
+  storage: number
+  tau: number
+  typicalOverdrive: number
+  /** collector current R_BE diverts at turn-on (VBE high), amperes */
+  rbeCurrent: number
+  /** the characterised box: [min, max] of the points' pull-ups, LED currents and loads */
+  range: { rl: [number, number]; ledCurrent: [number, number]; loadCap: [number, number] }
+  outsideRange: boolean
+  /** the conditions each point was taken at, as used (defaults filled in) */
+  pointConditions: { rl: number; ledCurrent: number; loadCap: number; vcc: number; rbe: number | null; assumed: string[] }[]
 }
 
 /** Product of the CTR derating factors (defaults 1). */
@@ -203,15 +126,98 @@ export function ctrDeratingOf(stage: Pick<PhototransistorStage, 'ctrDerating'>):
   return (d?.temperature ?? 1) * (d?.endOfLife ?? 1)
 }
 
+/** The assumptions this module makes, in words for the report. */
+export function phototransistorAssumptions(): string[] {
+  const pct = Math.round(TYPICAL_SPREAD * 100)
+  return [
+    'Phototransistor switching times come from a charge-control model of the output transistor (storage time constant, Miller capacitance hFE x C_CB, LED and photodiode lag, turn-on charge) calibrated from the stage\'s characterisation points and evaluated at the stage\'s own pull-up, LED current, load capacitance and base-emitter resistor.',
+    `Phototransistor delay corners are typ -/+ partSkew/2 when partSkew is given, else typ -/+ ${pct} %; transition max = typ + ${pct} %; the corners also cover every CTR hypothesis, and outside the characterised range the slow corners are held at the range's nearest edge.`,
+    'The load capacitance adds to the output node\'s capacitance in the model (RL x C on both edges\' time constant) and is not limited to the characterised loads; only a load lighter than every point\'s holds the slow corners.',
+    `A characterisation point without its own conditions is taken at the stage's CTR test current (else ${formatEng(POINT_DEFAULT_LED_CURRENT, 'A')}), an unloaded output (${formatEng(POINT_DEFAULT_LOAD_CAP, 'F')}), the stage's supply and an open base.`,
+    `Static check: CTR is the stated minimum times the temperature and end-of-life derating, less hFE x VBE / RBE (VBE ${VBE_HIGH} V) where a base-emitter resistor is fitted; the LED current is (drive - VF - the driver's own drop) / R_LED.`,
+    'Coupler power is the static on-state dissipation, worst case over parts with at least the derated minimum CTR.',
+  ]
+}
+
+const eng = (v: number, unit: string) => formatEng(v, unit)
+
+/** One calibration of the model: the central typical CTR, or one of the bracket's. */
+interface CalibratedScenario {
+  ctrTyp: number
+  calibration: Calibration
+}
+
 /**
- * The phototransistor stage reduced to the chain's edge model, with its warnings and
- * static operating point. `stage` is the validated schema object (defaults may be
- * missing: they are applied here as the schema states them).
+ * Calibrations are reused across calls with the same points and conditions: the pull-up
+ * sweep's rows share one, and live analysis recomputes the same link on every edit.
+ * Keyed by content, bounded (oldest dropped first).
+ */
+const calibrationCache = new Map<string, CalibratedScenario[]>()
+const CALIBRATION_CACHE_SIZE = 512
+/** The last characterisation array seen and its key (a sweep passes the same array for every row). */
+let lastPoints: readonly CharacterizationPoint[] | null = null
+let lastPointsKey = ''
+
+/** The resolved conditions of one point. */
+function pointOperating(p: CharacterizationPoint, stage: PhototransistorStage, ctrTyp: number, hfe: number): CouplerOperatingPoint {
+  return {
+    rl: p.rl,
+    ledCurrent: p.ledCurrent ?? stage.ctrTestCurrent ?? POINT_DEFAULT_LED_CURRENT,
+    loadCap: p.loadCap ?? POINT_DEFAULT_LOAD_CAP,
+    vcc: p.vcc ?? stage.vcc,
+    vceSat: stage.vceSat ?? 0.4,
+    ctrTyp,
+    hfe,
+    ...(p.rbe !== undefined ? { rbe: p.rbe } : {}),
+  }
+}
+
+/** Calibrate at the central and (without a stated ctrTyp) the bracket's typical CTRs. */
+function scenarios(stage: PhototransistorStage, hfe: number): CalibratedScenario[] {
+  const wiring = stage.wiring ?? 'collector'
+  const ctrs = stage.ctrTyp !== undefined ? [stage.ctrTyp] : [ctrTypOf(stage), ...CTR_TYP_BRACKET.map((m) => m * stage.ctrMin)]
+  if (stage.characterization !== lastPoints) {
+    lastPoints = stage.characterization
+    lastPointsKey = JSON.stringify(stage.characterization)
+  }
+  const key = `${wiring}|${stage.vcc}|${stage.vceSat}|${stage.ctrTestCurrent}|${hfe}|${ctrs.join(',')}|${lastPointsKey}`
+  const hit = calibrationCache.get(key)
+  if (hit) {
+    // refresh its place as the most recently used
+    calibrationCache.delete(key)
+    calibrationCache.set(key, hit)
+    return hit
+  }
+  const out: CalibratedScenario[] = []
+  for (const ctrTyp of ctrs) {
+    const points: CalibrationPoint[] = stage.characterization.map((p) => {
+      const cp: CalibrationPoint = { op: pointOperating(p, stage, ctrTyp, hfe) }
+      for (const q of CHAR_QUANTITIES) {
+        const v = p[q]
+        if (v !== undefined) cp[modelQuantity(wiring, q)] = v
+      }
+      return cp
+    })
+    out.push({ ctrTyp, calibration: calibrate(points, CLASS_PRIOR, out[0]?.calibration.params) })
+  }
+  calibrationCache.set(key, out)
+  if (calibrationCache.size > CALIBRATION_CACHE_SIZE) calibrationCache.delete(calibrationCache.keys().next().value!)
+  return out
+}
+
+const clampTo = (v: number, [lo, hi]: [number, number]) => Math.min(hi, Math.max(lo, v))
+const outside = (v: number, [lo, hi]: [number, number]) => v < lo * (1 - 1e-6) || v > hi * (1 + 1e-6)
+
+/**
+ * The phototransistor stage reduced to the chain's edge model, with its warnings, static
+ * operating point and calibrated model. `stage` is the validated schema object (defaults
+ * may be missing: they are applied here as the schema states them).
  */
 export function phototransistorModel(stage: PhototransistorStage): {
   model: StageEdgeModel
   warnings: Warning[]
   operating: PhototransistorOperating
+  coupler: CouplerModelInfo
 } {
   const warnings: Warning[] = []
   const wiring = stage.wiring ?? 'collector'
@@ -219,37 +225,36 @@ export function phototransistorModel(stage: PhototransistorStage): {
   const vceSat = stage.vceSat ?? 0.4
   const loadCap = stage.loadCap ?? 0
   const { vcc, rl } = stage
+  const hfe = stage.hfe ?? DEFAULT_HFE
 
   // ---- static operating point (section 5, static checks)
   const ledCurrent = ledCurrentOf(stage)
   if (stage.rLed !== undefined && stage.ledCurrent !== undefined) {
-    const fromR = ledCurrent
-    if (Math.abs(fromR - stage.ledCurrent) > 0.01 * Math.max(fromR, stage.ledCurrent))
+    if (Math.abs(ledCurrent - stage.ledCurrent) > 0.01 * Math.max(ledCurrent, stage.ledCurrent))
       warnings.push({
         code: 'other',
-        message: `LED current ${eng(stage.ledCurrent, 'A')} disagrees with (drive - VF)/rLed = ${eng(fromR, 'A')}; rLed is used.`,
+        message: `LED current ${eng(stage.ledCurrent, 'A')} disagrees with (drive - VF - driver drop)/rLed = ${eng(ledCurrent, 'A')}; rLed is used.`,
       })
   }
-  if (stage.driveVoltage <= stage.vf && stage.rLed !== undefined)
+  const drop = driverDropOf(stage)
+  if (stage.rLed !== undefined && stage.driveVoltage <= stage.vf + drop)
     warnings.push({
       code: 'unsaturated',
-      message: `Drive voltage ${eng(stage.driveVoltage, 'V')} does not exceed the LED forward voltage ${eng(stage.vf, 'V')}: the LED never lights.`,
+      message: `Drive voltage ${eng(stage.driveVoltage, 'V')} does not exceed the LED forward voltage ${eng(stage.vf, 'V')} plus the driver's own drop ${eng(drop, 'V')}: the LED never lights.`,
     })
   const swingV = Math.max(0, vcc - vceSat)
   const icRequired = swingV / rl
-  const icAvailable = stage.ctrMin * ctrDeratingOf(stage) * ledCurrent
+  const diverted = rbeDivertedCurrent(stage.rbe, hfe, VBE_HIGH)
+  const icAvailable = Math.max(0, stage.ctrMin * ctrDeratingOf(stage) * ledCurrent - diverted)
   // no swing (VCC <= VCE(sat)) cannot be driven at all: overdrive 0, not saturated
   const overdrive = icRequired > 0 ? icAvailable / icRequired : 0
   const saturated = icRequired > 0 && ledCurrent > 0 && icAvailable >= icRequired
   if (vcc <= vceSat)
-    warnings.push({
-      code: 'other',
-      message: `Output supply ${eng(vcc, 'V')} is not above VCE(sat) ${eng(vceSat, 'V')}: the output has no swing.`,
-    })
+    warnings.push({ code: 'other', message: `Output supply ${eng(vcc, 'V')} is not above VCE(sat) ${eng(vceSat, 'V')}: the output has no swing.` })
   if (!saturated)
     warnings.push({
       code: 'unsaturated',
-      message: `Output does not saturate: derated CTR gives ${eng(icAvailable, 'A')} but (VCC - VCE(sat))/RL needs ${eng(icRequired, 'A')} (overdrive ${overdrive.toFixed(2)}). Raise the LED current or the pull-up resistance.`,
+      message: `Output does not saturate: derated CTR gives ${eng(icAvailable, 'A')}${diverted > 0 ? ` (after ${eng(diverted, 'A')} taken by RBE)` : ''} but (VCC - VCE(sat))/RL needs ${eng(icRequired, 'A')} (overdrive ${overdrive.toFixed(2)}). Raise the LED current or the pull-up resistance${diverted > 0 ? ', or RBE' : ''}.`,
     })
   if (stage.ctrTestCurrent !== undefined && ledCurrent > 0 && ledCurrent < 0.5 * stage.ctrTestCurrent)
     warnings.push({
@@ -268,57 +273,100 @@ export function phototransistorModel(stage: PhototransistorStage): {
   absMax(warnings, ledCurrent, stage.ledCurrentMax, 'LED current', 'A')
   absMax(warnings, icRequired, stage.collectorCurrentMax, 'Collector current', 'A')
   absMax(warnings, power, stage.powerMax, 'Coupler power', 'W')
-  absMax(warnings, ledCurrent, stage.driverCurrentMax, 'Driving pin current', 'A')
+  const pinLimit = driverCurrentMaxOf(stage)
+  if (pinLimit !== null && ledCurrent > pinLimit)
+    warnings.push({
+      code: 'absolute-maximum',
+      message: `Driving pin current ${eng(ledCurrent, 'A')} exceeds its limit ${eng(pinLimit, 'A')}${stage.driverCurrentMax === undefined ? ' (the default for a logic pin)' : ''}: drive the LED through a transistor switch, or lower the LED current.`,
+    })
 
-  // ---- switching times (section 5, timing)
-  const passive = passiveDirection(wiring)
-  const fits = fitCharacterization(stage)
+  // ---- switching times (section 5, timing): calibrated model at the stage's operating point
+  const calibrated = scenarios(stage, hfe)
+  const central = calibrated[0]!
+  const conditions = stage.characterization.map((p) => pointOperating(p, stage, central.ctrTyp, hfe))
+  const box = {
+    rl: spanOf(conditions.map((c) => c.rl)),
+    ledCurrent: spanOf(conditions.map((c) => c.ledCurrent)),
+    loadCap: spanOf(conditions.map((c) => c.loadCap)),
+  }
+  const here = (ctrTyp: number): CouplerOperatingPoint => ({
+    rl,
+    ledCurrent,
+    loadCap,
+    vcc,
+    vceSat,
+    ctrTyp,
+    hfe,
+    ...(stage.rbe !== undefined ? { rbe: stage.rbe } : {}),
+  })
+  const lit = ledCurrent > 0
+  const predictions: CouplerSwitching[] = lit ? calibrated.map((s) => predictSwitching(s.calibration.params, here(s.ctrTyp))) : []
+  const typPrediction = predictions[0]
+  // the load adds to the output node's capacitance (physics, not a fitted trend): only a
+  // load lighter than every point's can make the model faster than the range allows
+  const outsideRange = outside(rl, box.rl) || outside(ledCurrent, box.ledCurrent)
+  const lighterLoad = loadCap < box.loadCap[0] * (1 - 1e-6)
+  // the slow corners never faster than the model at the range's nearest edge
+  const edge =
+    lit && (outsideRange || lighterLoad)
+      ? predictSwitching(central.calibration.params, {
+          ...here(central.ctrTyp),
+          rl: clampTo(rl, box.rl),
+          ledCurrent: clampTo(ledCurrent, box.ledCurrent),
+          loadCap: clampTo(loadCap, box.loadCap),
+        })
+      : null
+
   const typ = {} as Record<CharQuantity, number>
+  const lo = {} as Record<CharQuantity, number>
+  const hi = {} as Record<CharQuantity, number>
   for (const q of CHAR_QUANTITIES) {
-    const fit = fits[q]
-    if (fit.method === 'none') continue
-    typ[q] = evalFit(fit, rl)
-    if (fit.a + fit.b * rl < 0)
-      warnings.push({ code: 'extrapolation', message: `The ${label(q)} fit goes below zero at RL ${eng(rl, 'ohm')}; 0 is used.` })
-    if (fit.method === 'proportional')
-      warnings.push({
-        code: 'single-point-fit',
-        message: `${label(q)} has one characterisation RL (${eng(fit.rlMin, 'ohm')}); it is scaled in proportion to RL, an extrapolation${rel(rl, fit.rlMin) ? ' for any other RL' : ` to ${eng(rl, 'ohm')}`}. Enter a second point.`,
-      })
-    if ((rl < fit.rlMin && !rel(rl, fit.rlMin)) || (rl > fit.rlMax && !rel(rl, fit.rlMax)))
-      warnings.push({
-        code: 'extrapolation',
-        message: `RL ${eng(rl, 'ohm')} is outside the characterised range ${eng(fit.rlMin, 'ohm')}..${eng(fit.rlMax, 'ohm')} of ${label(q)}: extrapolated.`,
-      })
+    const mq = modelQuantity(wiring, q)
+    const values = predictions.map((p) => p[mq])
+    typ[q] = typPrediction ? typPrediction[mq] : 0
+    lo[q] = values.length ? Math.min(...values) : 0
+    // the delays' slow corners are held at the edge; the transitions follow the model (a
+    // transition held at another LED current would not belong to this edge's delay)
+    const isDelay = q === 'tplh' || q === 'tphl'
+    hi[q] = Math.max(values.length ? Math.max(...values) : 0, edge && isDelay ? edge[mq] : 0)
   }
-  // A quantity without any point: estimate it from the others and say so.
-  const passiveTr: CharQuantity = passive === 'rise' ? 'tr' : 'tf'
-  const passiveD: CharQuantity = passive === 'rise' ? 'tplh' : 'tphl'
-  const activeTr: CharQuantity = passive === 'rise' ? 'tf' : 'tr'
-  const activeD: CharQuantity = passive === 'rise' ? 'tphl' : 'tplh'
-  if (typ[passiveTr] === undefined) {
-    typ[passiveTr] = typ[passiveD] !== undefined ? (typ[passiveD] * LN9) / LN2 : LN9 * rl * loadCap
+  // a fit that misses its own points widens the corners by what it misses
+  const missBy = central.calibration.maxRelative
+
+  if (lit && typPrediction && !typPrediction.switches)
+    warnings.push({
+      code: 'unsaturated',
+      message: `RBE ${eng(stage.rbe ?? 0, 'Ω')} diverts more current than the typical photocurrent supplies: the output never switches.`,
+    })
+  if (stage.ctrTyp === undefined)
     warnings.push({
       code: 'other',
-      message: `${label(passiveTr)} is not characterised: estimated as an exponential edge from ${typ[passiveD] !== undefined ? label(passiveD) : 'RL and the load capacitance alone (a lower bound)'}.`,
+      message: `Typical CTR not given: assumed ${formatPercent(central.ctrTyp)} (${(central.ctrTyp / stage.ctrMin).toFixed(2)} x the minimum); the corners also cover ${CTR_TYP_BRACKET.map((m) => formatPercent(m * stage.ctrMin)).join(' and ')}. Enter the datasheet's typical CTR for tighter predictions.`,
     })
-  }
-  if (typ[passiveD] === undefined) {
-    typ[passiveD] = (typ[passiveTr] * LN2) / LN9
+  if (stage.rbe !== undefined && stage.hfe === undefined)
+    warnings.push({ code: 'other', message: `RBE is fitted but hfe is not given: the output transistor's gain is taken as ${DEFAULT_HFE}.` })
+  if (outsideRange)
+    warnings.push({
+      code: 'extrapolation',
+      message: `The operating point (RL ${eng(rl, 'Ω')}, LED ${eng(ledCurrent, 'A')}) is outside the characterised range (RL ${eng(box.rl[0], 'Ω')} to ${eng(box.rl[1], 'Ω')}, LED ${eng(box.ledCurrent[0], 'A')} to ${eng(box.ledCurrent[1], 'A')}): the typical times follow the model; the slow corners are held at the range's nearest edge. Add a point taken near these conditions.`,
+    })
+  if (central.calibration.maxRelative > 0.15)
+    warnings.push({
+      code: 'extrapolation',
+      message: `The model reproduces the characterisation points only within ${formatPercent(central.calibration.maxRelative)}: check the points (units, conditions); the corners are widened by that much.`,
+    })
+  const missing = CHAR_QUANTITIES.filter((q) => stage.characterization.every((p) => p[q] === undefined))
+  if (missing.length)
     warnings.push({
       code: 'other',
-      message: `${label(passiveD)} is not characterised: estimated as the 50 % point of the passive edge (a lower bound).`,
+      message: `${missing.map(label).join(', ')} ${missing.length === 1 ? 'is' : 'are'} not characterised: estimated from the model with the generic phototransistor class's parameters for what the points do not determine. Enter ${missing.length === 1 ? 'it' : 'them'} from the datasheet.`,
     })
-  }
-  for (const t of [activeTr, activeD]) {
-    if (typ[t] === undefined) {
-      typ[t] = 0
-      warnings.push({
-        code: 'other',
-        message: `${label(t)} is not characterised: taken as 0 (an optimistic bound); enter it from the datasheet.`,
-      })
-    }
-  }
+  const assumedConditions = stage.characterization.filter((p) => p.ledCurrent === undefined || p.loadCap === undefined).length
+  if (assumedConditions)
+    warnings.push({
+      code: 'other',
+      message: `${assumedConditions} characterisation point${assumedConditions === 1 ? ' does' : 's do'} not state the LED current or load it was taken at: taken at ${eng(stage.ctrTestCurrent ?? POINT_DEFAULT_LED_CURRENT, 'A')} and ${eng(POINT_DEFAULT_LOAD_CAP, 'F')}.`,
+    })
 
   // ---- output swing: collector wiring VCE(sat)..VCC, emitter wiring 0..VCC - VCE(sat);
   // an unsaturated output only reaches what the derated current can pull across RL.
@@ -334,14 +382,27 @@ export function phototransistorModel(stage: PhototransistorStage): {
   if (stage.vLow !== undefined) vLow = stage.vLow
   if (stage.vHigh !== undefined) vHigh = stage.vHigh
 
+  const passive = passiveDirection(wiring)
   const riseShape: EdgeShape = passive === 'rise' ? 'exponential' : 'ramp'
   const fallShape: EdgeShape = passive === 'fall' ? 'exponential' : 'ramp'
+  const widen = 1 + missBy
+  const tr = { typ: typ.tr, max: hi.tr * widen * (1 + TYPICAL_SPREAD) }
+  const tf = { typ: typ.tf, max: hi.tf * widen * (1 + TYPICAL_SPREAD) }
+  // a fast corner never puts the output's own edge before its cause: the delay is at least
+  // the time the edge shape takes from its start to 50 % (ramp 0.625 t, exponential ln 2 / ln 9 t)
+  const lead = (shape: EdgeShape, t: number) => (shape === 'ramp' ? 0.625 : Math.LN2 / Math.log(9)) * t
+  const causal = (c: Corners, t: { typ: number; max: number }, shape: EdgeShape): Corners => {
+    const min = Math.min(c.typ, Math.max(c.min, lead(shape, t.max)))
+    // a bracketed transition longer than the typical delay allows is held to what it allows
+    if (lead(shape, t.max) > c.typ) t.max = Math.max(t.typ, c.typ / lead(shape, 1))
+    return { ...c, min }
+  }
   const model: StageEdgeModel = {
     inverting: phototransistorInverts(wiring, ledOnWhen),
-    tplh: delayCorners(typ.tplh, stage.partSkew),
-    tphl: delayCorners(typ.tphl, stage.partSkew),
-    tr: transition(typ.tr),
-    tf: transition(typ.tf),
+    tplh: causal(delayCorners(typ.tplh, lo.tplh, hi.tplh * widen, stage.partSkew), tr, riseShape),
+    tphl: causal(delayCorners(typ.tphl, lo.tphl, hi.tphl * widen, stage.partSkew), tf, fallShape),
+    tr,
+    tf,
     riseShape,
     fallShape,
     vLow,
@@ -350,7 +411,48 @@ export function phototransistorModel(stage: PhototransistorStage): {
     jitterRms: stage.jitterRms ?? 0,
     jitterPeak: stage.jitterPeak ?? 0,
   }
-  return { model, warnings, operating: { ledCurrent, icRequired, icAvailable, overdrive, saturated, power } }
+  if (lighterLoad && !outsideRange)
+    warnings.push({
+      code: 'extrapolation',
+      message: `The load ${eng(loadCap, 'F')} is lighter than every point's (${eng(box.loadCap[0], 'F')} and up): the slow corners are held at the lightest characterised load.`,
+    })
+  const coupler: CouplerModelInfo = {
+    params: central.calibration.params,
+    fit: {
+      values: central.calibration.values,
+      points: stage.characterization.length,
+      rmsRelative: central.calibration.rmsRelative,
+      maxRelative: central.calibration.maxRelative,
+      residuals: central.calibration.residuals,
+    },
+    ctrTyp: central.ctrTyp,
+    ctrTypAssumed: stage.ctrTyp === undefined,
+    hfe,
+    hfeAssumed: stage.hfe === undefined,
+    storage: typPrediction?.storage ?? 0,
+    tau: typPrediction?.tau ?? 0,
+    typicalOverdrive: typPrediction?.overdrive ?? 0,
+    rbeCurrent: diverted,
+    range: box,
+    outsideRange,
+    pointConditions: stage.characterization.map((p, i) => ({
+      rl: conditions[i]!.rl,
+      ledCurrent: conditions[i]!.ledCurrent,
+      loadCap: conditions[i]!.loadCap,
+      vcc: conditions[i]!.vcc,
+      rbe: p.rbe ?? null,
+      assumed: [...(p.ledCurrent === undefined ? ['ledCurrent'] : []), ...(p.loadCap === undefined ? ['loadCap'] : []), ...(p.vcc === undefined ? ['vcc'] : [])],
+    })),
+  }
+  return { model, warnings, operating: { ledCurrent, icRequired, icAvailable, overdrive, saturated, power }, coupler }
+}
+
+function spanOf(values: number[]): [number, number] {
+  return [Math.min(...values), Math.max(...values)]
+}
+
+function formatPercent(fraction: number): string {
+  return `${Number((fraction * 100).toPrecision(3))} %`
 }
 
 /** Static transistor dissipation at collector current ic: ic * VCE, VCE the larger of VCE(sat) and what RL leaves. */
@@ -364,21 +466,14 @@ function absMax(warnings: Warning[], value: number, limit: number | undefined, w
     warnings.push({ code: 'absolute-maximum', message: `${what} ${eng(value, unit)} exceeds its absolute maximum ${eng(limit, unit)}.` })
 }
 
-/** Equal within 1e-6 relative (an RL at the edge of the characterised range is inside it). */
-function rel(x: number, y: number): boolean {
-  return Math.abs(x - y) <= 1e-6 * Math.max(x, y)
-}
-
-/** Delay corners of a typical curve value: typ -/+ partSkew/2 (never below 0), else typ -/+ TYPICAL_SPREAD. */
-function delayCorners(t: number, skew: number | undefined): Corners {
+/**
+ * Delay corners around the typical value: -/+ partSkew/2 (never below 0), else
+ * x (1 -/+ TYPICAL_SPREAD), widened to the lowest and highest hypothesis.
+ */
+function delayCorners(typ: number, lowest: number, highest: number, skew: number | undefined): Corners {
   return skew !== undefined
-    ? { min: Math.max(0, t - skew / 2), typ: t, max: t + skew / 2 }
-    : { min: t * (1 - TYPICAL_SPREAD), typ: t, max: t * (1 + TYPICAL_SPREAD) }
-}
-
-/** Transition time of a typical curve value: max = typ + TYPICAL_SPREAD. */
-function transition(t: number): { typ: number; max: number } {
-  return { typ: t, max: t * (1 + TYPICAL_SPREAD) }
+    ? { min: Math.max(0, lowest - skew / 2), typ, max: highest + skew / 2 }
+    : { min: lowest * (1 - TYPICAL_SPREAD), typ, max: highest * (1 + TYPICAL_SPREAD) }
 }
 
 function label(q: CharQuantity): string {

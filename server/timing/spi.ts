@@ -14,7 +14,7 @@
 import type { Link, SpiSettings } from '../../shared/schemas/link'
 import type { ChainResult, Corners, Warning } from './types'
 
-export type SpiCheckId = 'mosi-setup' | 'mosi-hold' | 'sclk-high' | 'sclk-low' | 'miso-setup' | 'miso-hold' | 'cs-lead' | 'cs-lag'
+export type SpiCheckId = 'mosi-setup' | 'mosi-hold' | 'sclk-high' | 'sclk-low' | 'miso-setup' | 'miso-hold' | 'cs-lead' | 'cs-lag' | 'pulse-width'
 
 export const SPI_CHECK_IDS: readonly SpiCheckId[] = [
   'mosi-setup',
@@ -61,8 +61,11 @@ export interface SpiResult {
   /** SPI mode number 2*CPOL + CPHA */
   mode: number
   checks: SpiCheck[]
-  worstSlack: number
-  worstCheck: SpiCheckId
+  /** the smallest slack less its requirement, seconds; null when the link cannot carry data */
+  worstSlack: number | null
+  worstCheck: SpiCheckId | null
+  /** why no slack is computed (a channel cannot carry data); null when computed */
+  noSlackReason: string | null
   /** every check meets requiredSlack at sclkHz */
   pass: boolean
   /** highest SCLK meeting every check, hertz; null when no SCLK passes */
@@ -157,7 +160,7 @@ function skewBetween(spi: SpiSettings, a: SpiPath, b: SpiPath): number | null {
  * Slack of every SPI check, the maximum SCLK and the candidate table for an SPI link,
  * given the chain result of each of its channels (matched by channel id).
  */
-export function analyzeSpi(link: Link, chains: ChainResult[]): SpiResult {
+export function analyzeSpi(link: Link, chains: ChainResult[], notFunctional: (string | null)[] = []): SpiResult {
   const spi = link.spi
   if (!spi) throw new Error('spi: an SPI link needs spi settings')
   const ctl = spi.controller
@@ -280,12 +283,34 @@ export function analyzeSpi(link: Link, chains: ChainResult[]): SpiResult {
     },
     'cs-lead': { k: csLeadK, c: leadC, description: 'CS asserted before the first SCLK edge at the peripheral, less its lead time' },
     'cs-lag': { k: csLagK, c: lagC, description: 'CS released after the last SCLK edge at the peripheral, less its lag time' },
+    'pulse-width': { k: 1, c: 0, description: '' },
+  }
+  // the shortest pulse a stage passes (digital isolators): an SCLK half period less its PWD,
+  // a data bit (a whole period) less its PWD; the tightest channel sets the check
+  const ids: SpiCheckId[] = [...SPI_CHECK_IDS]
+  let pulse: { k: number; c: number; what: string } | null = null
+  for (const [path, k] of [
+    [sclk, 1],
+    [mosi, 2],
+    [miso, 2],
+    ...(cs ? [[cs, 2] as const] : []),
+  ] as const) {
+    const ch = link.channels.find((c) => c.id === path.id)!
+    const need = Math.max(0, ...ch.stages.map((st) => (st.kind === 'digital' ? Math.max(st.minPulseWidth ?? 0, st.glitchFilter ?? 0, st.maxDataRate ? 1 / st.maxDataRate : 0) : 0)))
+    if (need <= 0) continue
+    const c = -Math.max(Math.abs(path.chain.pwd.min), Math.abs(path.chain.pwd.max)) - need
+    // compare at the largest half period where the check binds first: the smaller k*H + c
+    if (!pulse || c / k < pulse.c / pulse.k) pulse = { k, c, what: `'${path.id}' pulses against its stages' ${need * 1e9 >= 1 ? `${Number((need * 1e9).toPrecision(3))} ns` : `${need} s`} minimum` }
+  }
+  if (pulse) {
+    lin['pulse-width'] = { k: pulse.k, c: pulse.c, description: `Shortest pulse through the isolators (${pulse.what}), after the channel's PWD` }
+    ids.push('pulse-width')
   }
 
   const required = spi.requiredSlack ?? 0
   const evaluate = (sclkHz: number) => {
     const H = 1 / (2 * sclkHz)
-    return SPI_CHECK_IDS.map((id): SpiCheck => {
+    return ids.map((id): SpiCheck => {
       const { k, c, description } = lin[id]
       const slack = k * H + c
       return { id, slack, slackFraction: slack / H, required, pass: slack >= required, slope: k, offset: c, description }
@@ -298,7 +323,7 @@ export function analyzeSpi(link: Link, chains: ChainResult[]): SpiResult {
   let hMin = 0
   let limitingCheck: SpiCheckId | null = null
   let impossible: SpiCheckId | null = null
-  for (const id of SPI_CHECK_IDS) {
+  for (const id of ids) {
     const { k, c } = lin[id]
     if (k === 0) {
       if (c < required && impossible === null) impossible = id
@@ -347,19 +372,23 @@ export function analyzeSpi(link: Link, chains: ChainResult[]): SpiResult {
 
   const checks = evaluate(spi.sclkHz)
   const worst = worstOf(checks)
+  const broken = link.channels.map((ch, i) => (notFunctional[i] ? `channel '${ch.id}': ${notFunctional[i]}` : null)).filter((x): x is string => x !== null)
+  const noSlackReason = broken.length ? `the link cannot carry data (${broken.join('; ')})` : null
+  if (noSlackReason) for (const c of candidates) c.pass = false
   return {
     sclkHz: spi.sclkHz,
     halfPeriod: 1 / (2 * spi.sclkHz),
     mode: spi.cpol * 2 + spi.cpha,
     checks,
-    worstSlack: worst.slack,
-    worstCheck: worst.id,
-    pass: checks.every((c) => c.pass),
-    maxSclkHz,
+    worstSlack: noSlackReason ? null : worst.slack,
+    worstCheck: noSlackReason ? null : worst.id,
+    noSlackReason,
+    pass: !noSlackReason && checks.every((c) => c.pass),
+    maxSclkHz: noSlackReason ? null : maxSclkHz,
     limitingCheck,
     roundTrip,
     candidates,
-    fastestPassing,
+    fastestPassing: noSlackReason ? null : fastestPassing,
     warnings,
     assumptions,
   }

@@ -11,7 +11,7 @@
  */
 import type { ChannelSpec, DigitalStage, RcStage, StageSpec, WireStage } from '../../shared/schemas/link'
 import { LN2, LN9 } from './edges'
-import { phototransistorModel, type PhototransistorOperating } from './phototransistor'
+import { phototransistorModel, type CouplerModelInfo, type PhototransistorOperating } from './phototransistor'
 import type { Corners, StageEdgeModel, Warning } from './types'
 
 export interface StageReduction {
@@ -19,6 +19,8 @@ export interface StageReduction {
   warnings: Warning[]
   /** static operating point, phototransistor stages only */
   operating?: PhototransistorOperating
+  /** the calibrated coupler model, phototransistor stages only */
+  coupler?: CouplerModelInfo
 }
 
 const fixed = (t: number): Corners => ({ min: t, typ: t, max: t })
@@ -103,7 +105,7 @@ export function reduceStage(stage: StageSpec, receiver: Pick<ChannelSpec['receiv
       return { model: rcStageModel(stage, receiver.vdd), warnings: [] }
     case 'phototransistor': {
       const r = phototransistorModel(stage)
-      return { model: r.model, warnings: r.warnings, operating: r.operating }
+      return { model: r.model, warnings: r.warnings, operating: r.operating, coupler: r.coupler }
     }
   }
 }

@@ -1,19 +1,25 @@
 /**
- * Pull-up sweep (timing-model.md section 5): for every standard pull-up RL of an E
- * series in a range, the collector current, the LED current needed for saturation
- * with the derated CTR and the chosen overdrive, the standard LED resistor that still
- * delivers it, the ratings, the predicted switching times, and the link's margin at
- * the target baud and its maximum baud. Recommends the row that meets the target with
- * the least LED current (longest LED life) and flags the faster alternatives.
+ * Pull-up sweep (timing-model.md section 5): for every standard pull-up RL of an E series
+ * in a range (and, when the stage has a base-emitter resistor, every RBE of E12 in its
+ * range), the collector current, the LED current needed for saturation with the derated
+ * CTR and the chosen overdrive, the standard LED resistor that still delivers it, the
+ * ratings, the switching times the calibrated coupler model predicts at that RL, IF and
+ * RBE, and the link's margin at the target baud and its maximum baud. Recommends the row
+ * that meets the target with the least LED current (longest LED life), flags the faster
+ * alternatives, and when no row meets the target evaluates the circuit changes a hardware
+ * engineer tries next.
  */
-import type { Link, PhototransistorStage } from '../../shared/schemas/link'
-import { analyzeLink, type Verdict } from './analyze'
-import { analyzeChain } from './chain'
+import { DigitalStage, type Link, type PhototransistorStage, type StageSpec, type ThresholdSpec } from '../../shared/schemas/link'
+import { VBE_HIGH, driverDropOf, rbeDivertedCurrent } from '../../shared/utils/coupler'
+import { formatEng } from '../../shared/utils/units'
+import { GENERIC_LOGIC_OUTPUT_COUPLER, schmittBufferFor } from '../../shared/parts/generic'
+import { analyzeLink, notFunctionalReason, type Verdict } from './analyze'
+import { analyzeChain, type ChainAnalysis } from './chain'
 import { EngineInputError } from './errors'
 import { nearestNotAbove, seriesValues, type SeriesName } from './eseries'
-import { ctrDeratingOf, phototransistorModel, type PhototransistorOperating } from './phototransistor'
-import type { StageEdgeModel, Warning } from './types'
-import { fixedClockCases, frameLayout, marginAndMaxBaud, type ClockErrors, type Distortion, type MarginAndMaxBaud } from './uart'
+import { ctrDeratingOf, phototransistorInverts, phototransistorModel } from './phototransistor'
+import { fixedClockCases, frameLayout, marginAndMaxBaud, statedClockErrors, type ClockErrors, type Distortion, type FixedClockCases, type MarginAndMaxBaud } from './uart'
+import type { UartChannelResult } from './uart'
 
 export interface PullupSweepOptions {
   /** E series for both RL and the LED resistor */
@@ -25,14 +31,19 @@ export interface PullupSweepOptions {
   overdrive?: number
   /** baud at which each row's margin is computed (default: the link's baud) */
   targetBaud?: number
+  /** base-emitter resistor range swept over E12 when the stage has one, ohms (default 47 kOhm to 1 MOhm) */
+  rbeMin?: number
+  rbeMax?: number
 }
 
 export interface PullupSweepRow {
   /** pull-up (load) resistor, ohms */
   rl: number
+  /** base-emitter resistor of the row, ohms; null: open base */
+  rbe: number | null
   /** collector current for saturation, (VCC - VCE(sat)) / RL, amperes */
   ic: number
-  /** LED current giving ic x overdrive with the derated minimum CTR, amperes */
+  /** LED current giving ic x overdrive (plus what RBE diverts) with the derated minimum CTR, amperes */
   ledCurrentRequired: number
   /** largest standard LED resistor that still gives ledCurrentRequired, ohms; null when the drive cannot */
   rLed: number | null
@@ -42,7 +53,7 @@ export interface PullupSweepRow {
   overdrive: number
   /** static on-state coupler dissipation, watts */
   power: number
-  /** predicted typical switching times at this RL, seconds */
+  /** predicted typical switching times at this RL, IF and RBE, seconds */
   tplh: number
   tphl: number
   tr: number
@@ -53,18 +64,30 @@ export interface PullupSweepRow {
   meetsTarget: boolean
   /** withinRatings and meetsTarget */
   feasible: boolean
-  /** why the row is not feasible (empty when it is) */
+  /** why the row is not feasible, ratings first (empty when it is) */
   reasons: string[]
-  /** other warnings for this row (extrapolation, single-point fit ...) */
+  /** other warnings for this row that are not stated once for the whole sweep */
   notes: string[]
-  /** the link's worst margin at the target baud (worst uart direction), UI; null when not computed (the LED cannot light) */
+  /** the link's worst margin at the target baud (worst uart direction), UI; null when not computed (the link cannot carry data) */
   marginUi: number | null
   /** the link's highest baud meeting the required margin (lowest over its directions); null when none (or not computed) */
   maxBaud: number | null
   /** the analysis verdict at the target baud */
-  verdict: 'pass' | 'marginal' | 'fail' | null
+  verdict: Verdict | null
   /** feasible and faster (higher maxBaud) than the recommended row */
   fasterAlternative: boolean
+}
+
+/** A circuit change evaluated when no row meets the target. */
+export interface SweepAdvice {
+  change: 'rbe' | 'schmitt-buffer' | 'logic-output-coupler' | 'lower-rate'
+  /** what to do, in words */
+  description: string
+  /** the link's worst margin at the target baud with the change, UI (null: not computed) */
+  marginUi: number | null
+  /** the link's maximum baud with the change */
+  maxBaud: number | null
+  meetsTarget: boolean
 }
 
 export interface PullupSweepResult {
@@ -75,167 +98,274 @@ export interface PullupSweepResult {
   overdrive: number
   requiredMarginUi: number
   rows: PullupSweepRow[]
+  /** the RBE values swept (E12), empty when the stage has no base-emitter resistor */
+  rbeValues: number[]
   /** index of the recommended row, null when no row is feasible */
   recommended: number | null
   /** indices of the faster feasible alternatives, fastest first */
   alternatives: number[]
+  /** notes that hold for every row, stated once (extrapolation of the model, assumed CTR ...) */
+  commonNotes: string[]
+  /** the stage's characterisation points, for the plot (times in seconds) */
+  points: { rl: number; ledCurrent: number | null; tplh?: number; tphl?: number; tr?: number; tf?: number }[]
+  /** when no row meets the target: the highest rate a row within ratings reaches, and the changes that would */
+  advice: { bestRow: number | null; reachedBaud: number | null; options: SweepAdvice[] } | null
   assumptions: string[]
 }
 
 /** Most rows a sweep computes (E96 over ten decades is 960). */
 export const SWEEP_MAX_ROWS = 1000
+/** Default RBE range swept when the stage has a base-emitter resistor, ohms. */
+export const RBE_SWEEP_RANGE = [47e3, 1e6] as const
+
+/** Everything a row's evaluation shares: the swept direction's cases and the rest of the link's result. */
+interface SweepContext {
+  link: Link
+  ci: number
+  stageIndex: number
+  base: PhototransistorStage
+  targetBaud: number
+  requiredMarginUi: number
+  cases: FixedClockCases
+  cap: number
+  others: UartChannelResult[]
+  receiverInvert: boolean
+  scratch: MarginAndMaxBaud
+}
 
 /**
  * Sweep the pull-up of the phototransistor stage `stageIndex` of channel `channelId`
  * over the standard values of `options.series` in [rlMin, rlMax].
  */
 export function sweepPullup(link: Link, channelId: string, stageIndex: number, options: PullupSweepOptions): PullupSweepResult {
+  const { ci, base } = checkTarget(link, channelId, stageIndex)
+  const o = checkOptions(link, options)
+  const rls = seriesValues(o.series as SeriesName, o.rlMin, o.rlMax)
+  const rbeValues = base.rbe !== undefined ? seriesValues('E12', o.rbeMin, o.rbeMax) : []
+  const rbes: (number | null)[] = base.rbe !== undefined ? [null, ...rbeValues] : [null]
+  if (rls.length * rbes.length > SWEEP_MAX_ROWS)
+    throw new EngineInputError(['rlMax'], `the ranges hold ${rls.length * rbes.length} rows; at most ${SWEEP_MAX_ROWS} per sweep`)
+
+  const ctx = sweepContext(link, ci, stageIndex, base, o.targetBaud)
+  const rows = rls.flatMap((rl) => rbes.map((rbe) => sweepRow(ctx, rl, rbe, o.series, o.overdrive)))
+  const commonNotes = hoistCommonNotes(rows)
+  const { recommended, alternatives } = recommend(rows)
+  const advice = recommended === null ? adviseCircuitChanges(ctx, rows, o) : null
+  const ctr = base.ctrMin * ctrDeratingOf(base)
+  return {
+    channelId,
+    stageIndex,
+    series: o.series,
+    targetBaud: o.targetBaud,
+    overdrive: o.overdrive,
+    requiredMarginUi: ctx.requiredMarginUi,
+    rows,
+    rbeValues,
+    recommended,
+    alternatives,
+    commonNotes,
+    points: base.characterization.map((p) => ({
+      rl: p.rl,
+      ledCurrent: p.ledCurrent ?? null,
+      ...(p.tplh !== undefined ? { tplh: p.tplh } : {}),
+      ...(p.tphl !== undefined ? { tphl: p.tphl } : {}),
+      ...(p.tr !== undefined ? { tr: p.tr } : {}),
+      ...(p.tf !== undefined ? { tf: p.tf } : {}),
+    })),
+    advice,
+    assumptions: [
+      `Pull-up sweep: the LED resistor is the largest ${o.series} value that still gives the LED current for saturation with CTR ${(ctr * 100).toPrecision(3)} % (minimum x derating) and overdrive ${o.overdrive}${base.rbe !== undefined ? ', plus the current each row\'s RBE diverts' : ''}; the drive loses the driver's own ${formatEng(driverDropOf(base), 'V')}.`,
+      "Pull-up sweep: each row's switching times come from the calibrated coupler model at that row's RL, LED current and RBE.",
+      'Pull-up sweep: a row is feasible when no absolute maximum is exceeded, the output saturates, and the margin at the target baud meets the required margin.',
+      ...(rbeValues.length ? ['Pull-up sweep: RBE runs over the E12 values of its range; a row without RBE (open base) is included for comparison.'] : []),
+    ],
+  }
+}
+
+/** The channel and the phototransistor stage being swept, or a 400 naming what is wrong. */
+function checkTarget(link: Link, channelId: string, stageIndex: number): { ci: number; base: PhototransistorStage } {
   const ci = link.channels.findIndex((c) => c.id === channelId)
   if (ci < 0) throw new EngineInputError(['channelId'], `no channel '${channelId}' in the link`)
-  const channel = link.channels[ci]!
-  const base = channel.stages[stageIndex]
+  const base = link.channels[ci]!.stages[stageIndex]
   if (!base || base.kind !== 'phototransistor')
     throw new EngineInputError(['channels', ci, 'stages', stageIndex], `stage ${stageIndex} of channel '${channelId}' is not a phototransistor stage`)
   if (link.protocol !== 'uart' || !link.uart)
     throw new EngineInputError(['protocol'], 'the pull-up sweep computes UART margins: the link must be a UART link')
+  return { ci, base }
+}
+
+/** The options with their defaults, or a 400 naming the bad one. */
+function checkOptions(link: Link, options: PullupSweepOptions) {
   const series = options.series
-  if (series !== 'E12' && series !== 'E24' && series !== 'E96')
-    throw new EngineInputError(['series'], 'series must be E12, E24 or E96')
+  if (series !== 'E12' && series !== 'E24' && series !== 'E96') throw new EngineInputError(['series'], 'series must be E12, E24 or E96')
   const { rlMin, rlMax } = options
   if (!(rlMin > 0) || !(rlMax > 0) || !Number.isFinite(rlMin) || !Number.isFinite(rlMax))
     throw new EngineInputError(['rlMin'], 'rlMin and rlMax must be positive resistances')
   if (rlMin > rlMax) throw new EngineInputError(['rlMin'], 'rlMin must not exceed rlMax')
   const overdrive = options.overdrive ?? 1
   if (!(overdrive > 0) || !Number.isFinite(overdrive)) throw new EngineInputError(['overdrive'], 'overdrive must be a positive number')
-  const targetBaud = options.targetBaud ?? link.uart.baud
+  const targetBaud = options.targetBaud ?? link.uart!.baud
   if (!(targetBaud > 0) || !Number.isFinite(targetBaud)) throw new EngineInputError(['targetBaud'], 'targetBaud must be a positive baud rate')
-  const rls = seriesValues(series as SeriesName, rlMin, rlMax)
-  if (rls.length > SWEEP_MAX_ROWS)
-    throw new EngineInputError(['rlMax'], `the range holds ${rls.length} values; at most ${SWEEP_MAX_ROWS} per sweep`)
+  const rbeMin = options.rbeMin ?? RBE_SWEEP_RANGE[0]
+  const rbeMax = options.rbeMax ?? RBE_SWEEP_RANGE[1]
+  if (!(rbeMin > 0) || !(rbeMax >= rbeMin) || !Number.isFinite(rbeMax)) throw new EngineInputError(['rbeMin'], 'rbeMin must be a positive resistance not above rbeMax')
+  return { series, rlMin, rlMax, overdrive, targetBaud, rbeMin, rbeMax }
+}
 
-  const requiredMarginUi = link.uart.requiredMarginUi ?? 0.1
-  const ctr = base.ctrMin * ctrDeratingOf(base)
-  const vceSat = base.vceSat ?? 0.4
-  const headroom = base.driveVoltage - base.vf
-  const uart = { ...link.uart, baud: targetBaud }
-
-  // One full analysis at the target baud gives everything a row does not change: the
-  // swept direction's sampler, clock error bounds and search cap, and the other
-  // direction's result. Each row then re-runs only the swept channel's chain and the
-  // closed-form margin and maximum-baud of its direction (the same functions
-  // analyzeLink uses), which keeps a 300-row sweep to milliseconds.
+/**
+ * One full analysis at the target baud gives everything a row does not change: the swept
+ * direction's sampler, clock error bounds and search cap, and the other directions'
+ * results. Each row then re-runs only the swept channel's chain and the closed-form
+ * margin and maximum baud of its direction (the functions analyzeLink uses).
+ */
+function sweepContext(link: Link, ci: number, stageIndex: number, base: PhototransistorStage, targetBaud: number): SweepContext {
+  const uart = { ...link.uart!, baud: targetBaud }
   const baseAnalysis = analyzeLink({ ...link, uart })
   const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)
   const direction = uartIdx.indexOf(ci)
   const byChannel = baseAnalysis.uart?.byChannel ?? []
   const swept = byChannel[direction]
-  if (direction < 0 || !swept) throw new EngineInputError(['channelId'], `channel '${channelId}' is not a uart channel`)
-  const others = byChannel.filter((_, k) => k !== direction)
+  if (direction < 0 || !swept) throw new EngineInputError(['channelId'], `channel '${link.channels[ci]!.id}' is not a uart channel`)
   const layout = frameLayout(swept.frame.dataBits, swept.frame.parity, swept.frame.stopBits, swept.frame.backToBack)
   const errors: ClockErrors = { tx: swept.clocks.tx, rx: swept.clocks.rx }
-  // the sampler and the clocks are fixed over the sweep: each case's clock part once
-  const cases = fixedClockCases(layout, swept.sampler, errors)
-  const own: MarginAndMaxBaud = { worstUi: 0, maxBaud: null }
-  const receiverInvert = channel.receiver.invert ?? false
-
-  /** The link's margin, maximum baud and verdict with the swept channel's stages replaced. */
-  const evaluate = (stages: Link['channels'][number]['stages']) => {
-    const chain = analyzeChain({ ...channel, stages }, { path: ['channels', ci] })
-    const inverted = (chain.polarity === 'inverted') !== receiverInvert
-    const unsaturated = chain.stages.some((s) => s.operating && !s.operating.saturated)
-    const functional = chain.reachable && !inverted && !unsaturated
-    const pwd = receiverInvert ? { min: -chain.pwd.max, max: -chain.pwd.min } : chain.pwd
-    const d: Distortion = { pwd, jitterPeak: chain.jitterPeak, jitterRms: chain.jitterRms }
-    marginAndMaxBaud(cases, d, targetBaud, requiredMarginUi, swept.maxBaudCap, own)
-    let margin = own.worstUi
-    let max: number | null = own.maxBaud
-    const verdicts: Verdict[] = [!functional ? 'fail' : own.worstUi >= requiredMarginUi ? 'pass' : own.worstUi >= 0 ? 'marginal' : 'fail']
-    for (const o of others) {
-      margin = Math.min(margin, o.worstMarginUi)
-      max = max === null || o.maxBaud === null ? null : Math.min(max, o.maxBaud)
-      verdicts.push(o.verdict)
-    }
-    const verdict: Verdict = verdicts.includes('fail') ? 'fail' : verdicts.includes('marginal') ? 'marginal' : 'pass'
-    return { marginUi: margin, maxBaud: max, verdict, chain }
+  // the direction's ends: the first uart channel is uart.tx -> uart.rx, the second the other way
+  const u = link.uart!
+  const stated = direction === 0 ? statedClockErrors(u.tx, u.rx) : statedClockErrors(u.rx, u.tx)
+  return {
+    link,
+    ci,
+    stageIndex,
+    base,
+    targetBaud,
+    requiredMarginUi: link.uart!.requiredMarginUi ?? 0.1,
+    // the sampler and the clocks are fixed over the sweep: each case's clock part once
+    cases: fixedClockCases(layout, swept.sampler, errors, stated),
+    cap: swept.maxBaudCap,
+    others: byChannel.filter((_, k) => k !== direction),
+    receiverInvert: link.channels[ci]!.receiver.invert ?? false,
+    scratch: { worstUi: 0, maxBaud: null },
   }
+}
 
-  const rows: PullupSweepRow[] = rls.map((rl) => {
-    const ic = Math.max(0, base.vcc - vceSat) / rl
-    const ledCurrentRequired = (ic * overdrive) / ctr
-    const reasons: string[] = []
-    const notes: string[] = []
-    let rLed: number | null = null
-    let ledCurrent: number | null = null
-    let stage: PhototransistorStage
-    if (headroom > 0 && ledCurrentRequired > 0) {
-      // the largest standard resistor not above headroom / IF still gives at least IF
-      rLed = nearestNotAbove(headroom / ledCurrentRequired, series)
-      ledCurrent = headroom / rLed
-      stage = { ...base, rl, rLed, ledCurrent: undefined }
-    } else {
-      reasons.push(
-        headroom > 0
-          ? 'The output supply gives no swing above VCE(sat).'
-          : `Drive voltage ${base.driveVoltage} V does not exceed the LED forward voltage ${base.vf} V.`,
-      )
-      stage = { ...base, rl, rLed: undefined, ledCurrent: ledCurrentRequired }
-    }
-    let marginUi: number | null = null
-    let maxBaud: number | null = null
-    let verdict: PullupSweepRow['verdict'] = null
-    let model: StageEdgeModel
-    let operating: PhototransistorOperating
-    let warnings: Warning[]
-    if (ledCurrent !== null) {
-      const stages = channel.stages.slice()
-      stages[stageIndex] = stage
-      const e = evaluate(stages)
-      ;({ marginUi, maxBaud, verdict } = e)
-      // the chain already reduced the stage: take its model and warnings
-      const c = e.chain.stages[stageIndex]!
-      model = c.model
-      operating = c.operating!
-      warnings = e.chain.warnings.filter((w) => w.stage === stageIndex)
-    } else {
-      ;({ model, operating, warnings } = phototransistorModel(stage))
-    }
-    for (const w of warnings) {
-      if (w.code === 'absolute-maximum' || w.code === 'unsaturated') reasons.push(w.message)
-      else notes.push(w.message)
-    }
-    const withinRatings = reasons.length === 0
-    const meetsTarget = marginUi !== null && marginUi >= requiredMarginUi
-    if (ledCurrent !== null && !meetsTarget)
-      reasons.push(
-        marginUi === null
-          ? `No margin at ${targetBaud} Bd.`
-          : `Margin ${marginUi.toFixed(3)} UI at ${targetBaud} Bd is below the required ${requiredMarginUi} UI.`,
-      )
-    return {
-      rl,
-      ic,
-      ledCurrentRequired,
-      rLed,
-      ledCurrent,
-      overdrive: operating.overdrive,
-      power: operating.power,
-      tplh: model.tplh.typ,
-      tphl: model.tphl.typ,
-      tr: model.tr.typ,
-      tf: model.tf.typ,
-      withinRatings,
-      meetsTarget,
-      feasible: withinRatings && meetsTarget,
-      reasons,
-      notes,
-      marginUi,
-      maxBaud,
-      verdict,
-      fasterAlternative: false,
-    }
-  })
+/** The link's margin, maximum baud and verdict with the swept channel's stages replaced. */
+function evaluateStages(ctx: SweepContext, stages: StageSpec[]): { marginUi: number | null; maxBaud: number | null; verdict: Verdict; chain: ChainAnalysis } {
+  const channel = ctx.link.channels[ctx.ci]!
+  const chain = analyzeChain({ ...channel, stages }, { path: ['channels', ctx.ci] })
+  const broken = notFunctionalReason(chain, channel) !== null
+  const pwd = ctx.receiverInvert ? { min: -chain.pwd.max, max: -chain.pwd.min } : chain.pwd
+  const d: Distortion = { pwd, jitterPeak: chain.jitterPeak, jitterRms: chain.jitterRms }
+  marginAndMaxBaud(ctx.cases, d, ctx.targetBaud, ctx.requiredMarginUi, ctx.cap, ctx.scratch)
+  let margin: number | null = broken ? null : ctx.scratch.worstUi
+  let max: number | null = broken ? null : ctx.scratch.maxBaud
+  const verdicts: Verdict[] = [margin === null ? 'fail' : margin >= ctx.requiredMarginUi ? 'pass' : margin >= 0 ? 'marginal' : 'fail']
+  for (const o of ctx.others) {
+    margin = margin === null || o.worstMarginUi === null ? null : Math.min(margin, o.worstMarginUi)
+    max = max === null || o.maxBaud === null ? null : Math.min(max, o.maxBaud)
+    verdicts.push(o.verdict)
+  }
+  const verdict: Verdict = verdicts.includes('fail') ? 'fail' : verdicts.includes('marginal') ? 'marginal' : 'pass'
+  return { marginUi: margin, maxBaud: max, verdict, chain }
+}
 
-  // least LED current among feasible rows; ties go to the larger margin
+/** One row: the LED resistor for saturation at this RL and RBE, the stage with it, and the link's margin. */
+function sweepRow(ctx: SweepContext, rl: number, rbe: number | null, series: 'E12' | 'E24' | 'E96', overdrive: number): PullupSweepRow {
+  const base = ctx.base
+  const ctr = base.ctrMin * ctrDeratingOf(base)
+  const vceSat = base.vceSat ?? 0.4
+  const headroom = base.driveVoltage - base.vf - driverDropOf(base)
+  const ic = Math.max(0, base.vcc - vceSat) / rl
+  const diverted = rbeDivertedCurrent(rbe ?? undefined, base.hfe, VBE_HIGH)
+  const ledCurrentRequired = (ic * overdrive + diverted) / ctr
+  const reasons: string[] = []
+  const notes: string[] = []
+  let rLed: number | null = null
+  let ledCurrent: number | null = null
+  const rbeField = rbe !== null ? { rbe } : { rbe: undefined }
+  let stage: PhototransistorStage
+  if (headroom > 0 && ledCurrentRequired > 0) {
+    // the largest standard resistor not above headroom / IF still gives at least IF
+    rLed = nearestNotAbove(headroom / ledCurrentRequired, series)
+    ledCurrent = headroom / rLed
+    stage = { ...base, rl, rLed, ledCurrent: undefined, ...rbeField }
+  } else {
+    reasons.push(
+      headroom > 0
+        ? 'The output supply gives no swing above VCE(sat).'
+        : `Drive voltage ${formatEng(base.driveVoltage, 'V')} does not exceed the LED forward voltage ${formatEng(base.vf, 'V')} plus the driver's own drop.`,
+    )
+    stage = { ...base, rl, rLed: undefined, ledCurrent: ledCurrentRequired, ...rbeField }
+  }
+  let marginUi: number | null = null
+  let maxBaud: number | null = null
+  let verdict: PullupSweepRow['verdict'] = null
+  let reduced: Pick<ReturnType<typeof phototransistorModel>, 'model' | 'operating' | 'warnings'>
+  if (ledCurrent !== null) {
+    const stages = ctx.link.channels[ctx.ci]!.stages.slice()
+    stages[ctx.stageIndex] = stage
+    const e = evaluateStages(ctx, stages)
+    ;({ marginUi, maxBaud, verdict } = e)
+    // the chain already reduced the stage: take its model and warnings
+    const c = e.chain.stages[ctx.stageIndex]!
+    reduced = { model: c.model, operating: c.operating!, warnings: e.chain.warnings.filter((w) => w.stage === ctx.stageIndex) }
+  } else {
+    reduced = phototransistorModel(stage)
+  }
+  for (const w of reduced.warnings) {
+    if (w.code === 'absolute-maximum' || w.code === 'unsaturated') reasons.push(w.message)
+    else notes.push(w.message)
+  }
+  const withinRatings = reasons.length === 0
+  const meetsTarget = marginUi !== null && marginUi >= ctx.requiredMarginUi
+  if (ledCurrent !== null && !meetsTarget)
+    reasons.push(
+      marginUi === null
+        ? `No margin at ${formatEng(ctx.targetBaud, 'Bd')}: the link cannot carry data.`
+        : `Margin ${marginUi.toFixed(3)} UI at ${formatEng(ctx.targetBaud, 'Bd')} is below the required ${ctx.requiredMarginUi} UI.`,
+    )
+  const m = reduced.model
+  return {
+    rl,
+    rbe,
+    ic,
+    ledCurrentRequired,
+    rLed,
+    ledCurrent,
+    overdrive: reduced.operating.overdrive,
+    power: reduced.operating.power,
+    tplh: m.tplh.typ,
+    tphl: m.tphl.typ,
+    tr: m.tr.typ,
+    tf: m.tf.typ,
+    withinRatings,
+    meetsTarget,
+    feasible: withinRatings && meetsTarget,
+    reasons,
+    notes,
+    marginUi,
+    maxBaud,
+    verdict,
+    fasterAlternative: false,
+  }
+}
+
+/** Notes every row shares (same words once the numbers are set aside) are stated once for the sweep. */
+function hoistCommonNotes(rows: PullupSweepRow[]): string[] {
+  if (!rows.length) return []
+  const shape = (n: string) => n.replace(/-?\d+(\.\d+)?(e[-+]?\d+)?\s?[fpnuµmkMG]?(Ω|A|F|V|s|W|Bd|%)?/g, '#')
+  const counts = new Map<string, { n: number; example: string }>()
+  for (const r of rows)
+    for (const s of new Set(r.notes.map(shape))) {
+      const c = counts.get(s)
+      counts.set(s, { n: (c?.n ?? 0) + 1, example: c?.example ?? r.notes.find((n) => shape(n) === s)! })
+    }
+  const common = [...counts.entries()].filter(([, c]) => c.n === rows.length)
+  const commonShapes = new Set(common.map(([s]) => s))
+  for (const r of rows) r.notes = r.notes.filter((n) => !commonShapes.has(shape(n)))
+  return common.map(([, c]) => c.example)
+}
+
+/** Least LED current among feasible rows (ties: the larger margin); the faster feasible rows as alternatives. */
+function recommend(rows: PullupSweepRow[]): { recommended: number | null; alternatives: number[] } {
   let recommended: number | null = null
   for (let i = 0; i < rows.length; i++) {
     const r = rows[i]!
@@ -260,21 +390,79 @@ export function sweepPullup(link: Link, channelId: string, stageIndex: number, o
     }
     alternatives.sort((a, b) => (rows[b]!.maxBaud ?? 0) - (rows[a]!.maxBaud ?? 0))
   }
+  return { recommended, alternatives }
+}
 
-  return {
-    channelId,
-    stageIndex,
-    series,
-    targetBaud,
-    overdrive,
-    requiredMarginUi,
-    rows,
-    recommended,
-    alternatives,
-    assumptions: [
-      `Pull-up sweep: the LED resistor is the largest ${series} value that still gives the LED current for saturation with CTR ${(ctr * 100).toPrecision(3)} % (minimum x derating) and overdrive ${overdrive}.`,
-      'Pull-up sweep: switching times follow the stage characterisation at each RL; the LED current does not change them.',
-      'Pull-up sweep: a row is feasible when no absolute maximum is exceeded, the output saturates, and the margin at the target baud meets the required margin.',
-    ],
+/**
+ * No row meets the target: the highest rate a row within ratings reaches, and what each
+ * circuit change gives at the target (a base-emitter resistor, a Schmitt-trigger buffer
+ * after the coupler, a logic-output coupler in its place, a lower rate).
+ */
+function adviseCircuitChanges(ctx: SweepContext, rows: PullupSweepRow[], o: ReturnType<typeof checkOptions>): NonNullable<PullupSweepResult['advice']> {
+  let bestRow: number | null = null
+  rows.forEach((r, i) => {
+    if (r.withinRatings && r.maxBaud !== null && (bestRow === null || r.maxBaud > rows[bestRow]!.maxBaud!)) bestRow = i
+  })
+  const best = bestRow === null ? null : rows[bestRow]!
+  const reachedBaud = best?.maxBaud ?? null
+  const options: SweepAdvice[] = []
+  const stagesWith = (replace: (stages: StageSpec[]) => void) => {
+    const stages = ctx.link.channels[ctx.ci]!.stages.slice()
+    if (best) stages[ctx.stageIndex] = { ...ctx.base, rl: best.rl, rLed: best.rLed ?? undefined, ledCurrent: best.rLed === null ? best.ledCurrentRequired : undefined, rbe: best.rbe ?? ctx.base.rbe }
+    replace(stages)
+    return stages
   }
+  const judge = (change: SweepAdvice['change'], description: string, stages: StageSpec[]): SweepAdvice => {
+    const e = evaluateStages(ctx, stages)
+    return { change, description, marginUi: e.marginUi, maxBaud: e.maxBaud, meetsTarget: e.marginUi !== null && e.marginUi >= ctx.requiredMarginUi }
+  }
+  if (ctx.base.rbe === undefined) {
+    // a part with a base pin: the E12 RBE that gives the best margin at the best row's pull-up
+    let pick: SweepAdvice | null = null
+    for (const rbe of seriesValues('E12', o.rbeMin, o.rbeMax)) {
+      if (!best) break
+      const row = sweepRow(ctx, best.rl, rbe, o.series, o.overdrive)
+      if (!row.withinRatings || row.marginUi === null) continue
+      const a: SweepAdvice = {
+        change: 'rbe',
+        description: `A coupler with a base pin and a ${formatEng(rbe, 'Ω')} base-emitter resistor at RL ${formatEng(row.rl, 'Ω')}, LED resistor ${formatEng(row.rLed, 'Ω')} (hFE ${ctx.base.hfe ?? 'assumed'}).`,
+        marginUi: row.marginUi,
+        maxBaud: row.maxBaud,
+        meetsTarget: row.meetsTarget,
+      }
+      if (!pick || (a.marginUi ?? -Infinity) > (pick.marginUi ?? -Infinity)) pick = a
+    }
+    if (pick) options.push(pick)
+  }
+  const buffer = DigitalStage.parse(schmittBufferFor(ctx.base.vcc))
+  options.push(
+    judge(
+      'schmitt-buffer',
+      `A Schmitt-trigger buffer after the coupler (${buffer.name}, VT+ ${thresholdText(buffer.schmittInput!.vtPlus)}), which reads the slow rise at its threshold and hands the receiver a fast edge.`,
+      stagesWith((s) => s.splice(ctx.stageIndex + 1, 0, buffer)),
+    ),
+  )
+  options.push(
+    judge(
+      'logic-output-coupler',
+      `A logic-output coupler in place of the phototransistor coupler (${GENERIC_LOGIC_OUTPUT_COUPLER.name}, class values).`,
+      stagesWith((s) => {
+        s[ctx.stageIndex] = DigitalStage.parse({ ...GENERIC_LOGIC_OUTPUT_COUPLER, inverting: phototransistorInverts(ctx.base.wiring ?? 'collector', ctx.base.ledOnWhen ?? 'high') })
+      }),
+    ),
+  )
+  if (reachedBaud !== null)
+    options.push({
+      change: 'lower-rate',
+      description: `Run the link at ${formatEng(reachedBaud, 'Bd')} or below: the fastest a pull-up within ratings reaches (RL ${formatEng(best!.rl, 'Ω')}).`,
+      marginUi: null,
+      maxBaud: reachedBaud,
+      meetsTarget: false,
+    })
+  return { bestRow, reachedBaud, options }
+}
+
+/** A threshold as text: one value, or its range. */
+function thresholdText(t: ThresholdSpec): string {
+  return typeof t === 'number' ? formatEng(t, 'V') : `${formatEng(t.min, 'V')} to ${formatEng(t.max, 'V')}`
 }

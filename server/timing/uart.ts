@@ -31,7 +31,8 @@
  * closed form, and the clock tolerance follows from one linear inequality per case.
  */
 import type { UartSettings } from '../../shared/schemas/link'
-import { bitTimeBounds, rateErrorBounds, type BaudGeneratorResult, type ClockSpec, type RateErrorBounds } from './clock'
+import { formatEng } from '../../shared/utils/units'
+import { bitTimeBounds, rateErrorBounds, statedErrorBounds, type BaudGeneratorResult, type ClockSpec, type RateErrorBounds } from './clock'
 import { EngineInputError } from './errors'
 import { gaussianTail, qFromBer, totalJitter } from './statistics'
 import type { Warning } from './types'
@@ -167,6 +168,8 @@ export interface SamplerModel {
   late: number
   /** largest detection latency, receiver bit times (1/N; 0 for the ideal sampler) */
   latency: number
+  /** how far a fractional divisor moves each sample off its even position, receiver bit times (absent: integer divisor) */
+  fractionalSpread?: number
 }
 
 /** Default sample ticks after the detection tick: the middle tick and, for a vote, its neighbours (16x: 7, 8, 9; 8x: 3, 4, 5). */
@@ -437,7 +440,11 @@ export interface FixedClockCases {
 
 const ZERO_DISTORTION: Distortion = { pwd: { min: 0, max: 0 }, jitterPeak: 0, jitterRms: 0 }
 
-export function fixedClockCases(layout: FrameLayout, s: SamplerModel, e: ClockErrors): FixedClockCases {
+/**
+ * @param e the clock error intervals the margins use (`aTable`)
+ * @param eSearch the ones the maximum-baud search uses (`aSearch`; default `e`): each end's stated bound
+ */
+export function fixedClockCases(layout: FrameLayout, s: SamplerModel, e: ClockErrors, eSearch: ClockErrors = e): FixedClockCases {
   let n = 0
   for (let k = 0; k < layout.labels.length; k++) n += layout.early[k]!.length + layout.late[k]!.length
   const t: FixedClockCases = {
@@ -457,7 +464,7 @@ export function fixedClockCases(layout: FrameLayout, s: SamplerModel, e: ClockEr
       for (const c of side === 'early' ? layout.early[k]! : layout.late[k]!) {
         const p = side === 'early' ? c.bit + s.early : c.bit + s.late + s.latency
         t.aTable[i] = side === 'early' ? p * rxHi - c.pos * txLo : c.pos * txHi - p * rxLo
-        t.aSearch[i] = caseTerms(c, side, s, ZERO_DISTORTION, e).A
+        t.aSearch[i] = caseTerms(c, side, s, ZERO_DISTORTION, eSearch).A
         t.early[i] = side === 'early' ? 1 : 0
         t.rising[i] = c.rising ? 1 : 0
         t.sync[i++] = c.sync ? 1 : 0
@@ -657,13 +664,16 @@ export const MAX_BAUD_CAP = 100e6
 
 export interface StandardRateRow {
   baud: number
-  marginUi: number
+  /** worst margin at this rate, UI; null when the link cannot carry data or a generator cannot produce the rate */
+  marginUi: number | null
   pass: boolean
   /** the receiver's generator divisor at this rate (else the transmitter's), null without a generator */
   divisor: number | null
   /** that generator's quantisation error, signed fraction */
   error: number | null
   generators: { tx: BaudGeneratorResult | null; rx: BaudGeneratorResult | null }
+  /** why the rate fails without a margin (a generator cannot produce it, a pulse too short for a stage) */
+  note: string | null
 }
 
 export interface BerEstimate {
@@ -688,6 +698,17 @@ export interface BerEstimate {
   meetsTarget: boolean
 }
 
+/** The shortest pulse a stage in the chain passes, and the check of the frame's shortest pulse against it. */
+export interface PulseCheck {
+  /** the stage that needs the longest pulse */
+  stage: string
+  /** shortest pulse it passes (minimum pulse width, glitch filter, maximum data rate), seconds */
+  required: number
+  /** the frame's shortest pulse at the configured rate: one fast transmitter bit less the chain's worst |PWD|, seconds */
+  shortest: number
+  pass: boolean
+}
+
 export interface UartChannelResult {
   channelId: string
   baud: number
@@ -699,10 +720,16 @@ export interface UartChannelResult {
   /** the distortion the margins use (logical directions) */
   distortion: Distortion
   requiredMarginUi: number
+  /** per-bit margins at the configured rate; empty when no margin is computed (see `noMarginReason`) */
   bits: UartBitResult[]
-  worstMarginUi: number
-  worstBit: number
+  /** the worst margin, UI; null when the link cannot carry data at the configured rate */
+  worstMarginUi: number | null
+  worstBit: number | null
   verdict: 'pass' | 'marginal' | 'fail'
+  /** the channel can carry data at all (polarity, thresholds, saturated output, an output that switches) */
+  functional: boolean
+  /** why no margin is computed at the configured rate (not functional, a rate a generator cannot produce, a lost pulse); null when computed */
+  noMarginReason: string | null
   maxBaud: number | null
   maxBaudCap: number
   maxBaudCapped: boolean
@@ -711,6 +738,10 @@ export interface UartChannelResult {
   clockTolerance: ClockTolerance
   rateSweep: { baud: number; marginUi: number }[]
   standardRates: StandardRateRow[]
+  /** the fastest standard rate that passes, null when none does */
+  fastestStandardRate: number | null
+  /** the shortest-pulse check of the chain's digital stages; null when none states a limit */
+  pulseCheck: PulseCheck | null
   berEstimate: BerEstimate
   /**
    * Statistical view of the asymmetry (timing-model.md section 1): the chain PWD as its
@@ -730,8 +761,10 @@ export interface UartChannelInput {
   chain: { pwd: { min: number; max: number }; jitterPeak: number; jitterRms: number; pwdTyp?: number; pwdSigma?: number }
   /** the receiver inverts (logical edges are the opposite physical ones) */
   receiverInvert: boolean
-  /** the channel cannot work at all (inverted polarity, unreachable threshold, unsaturated output) */
-  functionalFailure?: boolean
+  /** why the channel cannot carry data at all (inverted polarity, unreachable threshold, unsaturated output); absent or null when it can */
+  notFunctional?: string | null
+  /** the longest shortest-pulse any stage of the chain needs, seconds, with the stage's name */
+  pulseLimit?: { seconds: number; stage: string } | null
   /** path of the settings in the link, for errors: ['uart'] */
   path?: (string | number)[]
   /** the rx / tx keys of this direction in the link, for error paths */
@@ -749,80 +782,84 @@ function clocksAt(input: UartChannelInput, baud: number): { tx: RateErrorBounds;
   }
 }
 
-/** Full UART analysis of one direction (timing-model.md section 2). */
-export function analyzeUartChannel(input: UartChannelInput): UartChannelResult {
-  const set = input.settings
-  const path = input.path ?? ['uart']
-  const layout = frameLayout(set.dataBits, set.parity, set.stopBits, set.backToBack)
-  const sampler = samplerModel(input.rx, [...path, input.rxKey ?? 'rx'])
-  const pwd = input.receiverInvert ? { min: -input.chain.pwd.max, max: -input.chain.pwd.min } : { ...input.chain.pwd }
-  const distortion: Distortion = { pwd, jitterPeak: input.chain.jitterPeak, jitterRms: input.chain.jitterRms }
-  const clocks = clocksAt(input, set.baud)
-  const errors: ClockErrors = { tx: clocks.tx, rx: clocks.rx }
-  const T = 1 / set.baud
-  const warnings: Warning[] = []
-
-  const bits = bitMargins(layout, sampler, distortion, errors, set.baud)
-  let worstBit = 0
-  for (const b of bits) if (b.marginUi < bits[worstBit]!.marginUi) worstBit = b.index
-  const worstUi = bits[worstBit]!.marginUi
-  const req = set.requiredMarginUi
-  let verdict: UartChannelResult['verdict'] = worstUi >= req ? 'pass' : worstUi >= 0 ? 'marginal' : 'fail'
-  if (input.functionalFailure) verdict = 'fail'
-
+/** Why a generator cannot produce `baud`, or null when both can. */
+function unreachableRate(clocks: { tx: RateErrorBounds; rx: RateErrorBounds }, baud: number): string | null {
   for (const [end, b] of [
     ['transmitter', clocks.tx],
     ['receiver', clocks.rx],
   ] as const)
-    if (b.generator && Math.abs(b.generator.error) > 0.01)
-      warnings.push({
-        code: 'generator-error',
-        channel: input.channelId,
-        message: `The ${end}'s baud generator gives ${b.generator.actualBaud.toFixed(1)} baud for ${set.baud} (divisor ${b.generator.divisor}, error ${(b.generator.error * 100).toFixed(2)} %).`,
-      })
+    if (b.generator && !b.generator.reachable)
+      return `the ${end}'s baud generator cannot produce ${formatEng(baud, 'Bd')}: it would need a divisor below 1 and runs at ${formatEng(b.generator.actualBaud, 'Bd')} (divisor 1) instead`
+  return null
+}
 
-  // Max-baud search cap: the schema's limit, and what each generator can reach with divisor 1.
-  let cap = MAX_BAUD_CAP
-  if (input.rx.clockHz !== undefined) cap = Math.min(cap, input.rx.clockHz / input.rx.oversampling)
-  if (input.tx.clockHz !== undefined) cap = Math.min(cap, input.tx.clockHz / (input.tx.oversampling ?? TX_DEFAULT_OVERSAMPLING))
-  const mb = maxBaud(layout, sampler, distortion, errors, req, cap)
-  if (mb.capped) warnings.push({ code: 'rate-cap', channel: input.channelId, message: mb.note })
-  if (mb.maxBaud === null) warnings.push({ code: 'no-pass', channel: input.channelId, message: mb.note })
+/**
+ * A fractional divisor alternates the tick period between floor and ceil of the divisor,
+ * so each sample lands up to one generator clock period off its even position: the
+ * deciding samples widen by 1 / (N x divisor) receiver bits each way.
+ */
+function withFractionalSpread(s: SamplerModel, rx: RateErrorBounds): SamplerModel {
+  const g = rx.generator
+  if (s.kind !== 'ticks' || !g || !g.fractional || s.oversampling === null) return s
+  const spread = 1 / (s.oversampling * g.divisor)
+  return { ...s, early: s.early - spread, late: s.late + spread, fractionalSpread: spread }
+}
 
-  const tolerance = clockTolerance(layout, sampler, distortion, set.baud, req)
+/** The frame's shortest pulse against the chain's pulse limit at `baud` with the transmitter's fastest clock. */
+function pulseCheckAt(input: UartChannelInput, d: Distortion, tx: RateErrorBounds, baud: number): PulseCheck | null {
+  if (!input.pulseLimit) return null
+  const shortest = 1 / (baud * (1 + tx.max)) - Math.max(Math.abs(d.pwd.min), Math.abs(d.pwd.max))
+  return { stage: input.pulseLimit.stage, required: input.pulseLimit.seconds, shortest, pass: shortest >= input.pulseLimit.seconds }
+}
 
-  // Rate sweep for the plot: log-spaced around the configured and the maximum rate.
-  const top = Math.min(cap, Math.max(set.baud, mb.maxBaud ?? set.baud) * 4)
-  const bottom = Math.max(1, Math.min(set.baud, mb.maxBaud ?? set.baud) / 10)
-  const points = 64
-  const rates = new Set<number>([set.baud])
-  if (mb.maxBaud !== null) rates.add(mb.maxBaud)
-  for (let i = 0; i < points; i++) rates.add(bottom * (top / bottom) ** (i / (points - 1)))
+/** Full UART analysis of one direction (timing-model.md section 2). */
+/** Each end's stated error bound, rate-independent (the maximum-baud search and the rate sweep use it). */
+export function statedClockErrors(tx: ClockSpec, rx: ClockSpec): ClockErrors {
+  return { tx: statedErrorBounds(tx), rx: statedErrorBounds(rx) }
+}
+
+export function analyzeUartChannel(input: UartChannelInput): UartChannelResult {
+  const set = input.settings
+  const path = input.path ?? ['uart']
+  const layout = frameLayout(set.dataBits, set.parity, set.stopBits, set.backToBack)
+  const clocks = clocksAt(input, set.baud)
+  const sampler = withFractionalSpread(samplerModel(input.rx, [...path, input.rxKey ?? 'rx']), clocks.rx)
+  const pwd = input.receiverInvert ? { min: -input.chain.pwd.max, max: -input.chain.pwd.min } : { ...input.chain.pwd }
+  const distortion: Distortion = { pwd, jitterPeak: input.chain.jitterPeak, jitterRms: input.chain.jitterRms }
+  const errors: ClockErrors = { tx: clocks.tx, rx: clocks.rx }
+  const T = 1 / set.baud
+  const req = set.requiredMarginUi
+  const warnings = generatorWarnings(input.channelId, clocks, set.baud)
+  const functional = !input.notFunctional
+  const pulseCheck = pulseCheckAt(input, distortion, clocks.tx, set.baud)
+  const unreachable = unreachableRate(clocks, set.baud)
+  const noMarginReason = !functional
+    ? `the channel cannot carry data: ${input.notFunctional}`
+    : unreachable
+      ? unreachable
+      : pulseCheck && !pulseCheck.pass
+        ? `a bit of ${formatEng(pulseCheck.shortest, 's')} (after the chain's asymmetry) is shorter than the ${formatEng(pulseCheck.required, 's')} stage '${pulseCheck.stage}' passes: pulses are lost`
+        : null
+  if (unreachable) warnings.push({ code: 'generator-error', channel: input.channelId, message: `${capitalise(unreachable)}.` })
+  if (pulseCheck && !pulseCheck.pass && functional && !unreachable)
+    warnings.push({ code: 'no-pass', channel: input.channelId, message: `${capitalise(noMarginReason!)}.` })
+
+  const bits = noMarginReason === null ? bitMargins(layout, sampler, distortion, errors, set.baud) : []
+  let worstBit: number | null = bits.length ? 0 : null
+  for (const b of bits) if (b.marginUi < bits[worstBit!]!.marginUi) worstBit = b.index
+  const worstUi = worstBit === null ? null : bits[worstBit]!.marginUi
+  const verdict: UartChannelResult['verdict'] = worstUi === null ? 'fail' : worstUi >= req ? 'pass' : worstUi >= 0 ? 'marginal' : 'fail'
+
+  const search = functional ? maxBaudSearch(input, layout, sampler, distortion, req) : null
+  if (search?.capped) warnings.push({ code: 'rate-cap', channel: input.channelId, message: search.note })
+  if (search && search.maxBaud === null) warnings.push({ code: 'no-pass', channel: input.channelId, message: search.note })
   const table = caseTable(layout, sampler, distortion)
-  const atConfiguredClocks = fixedClockCases(layout, sampler, errors)
-  const rateSweep = [...rates]
-    .filter((b) => b <= cap)
-    .sort((a, b) => a - b)
-    .map((baud) => ({ baud, marginUi: fixedClockWorstUi(atConfiguredClocks, table, baud) }))
-
-  const standardRates: StandardRateRow[] = STANDARD_BAUD_RATES.map((baud) => {
-    const c = clocksAt(input, baud)
-    const m = tableWorstUi(table, { tx: c.tx, rx: c.rx }, baud)
-    const gen = c.rx.generator ?? c.tx.generator
-    return {
-      baud,
-      marginUi: m,
-      pass: m >= req && !input.functionalFailure,
-      divisor: gen ? gen.divisor : null,
-      error: gen ? gen.error : null,
-      generators: { tx: c.tx.generator, rx: c.rx.generator },
-    }
-  })
-
-  const berEstimate = estimateBer(bits, distortion, set.berTarget, T)
+  const rateSweep = functional && search ? sweepRates(input, layout, sampler, table, search.maxBaud, search.cap) : []
+  const standardRates = standardRateRows(input, table, distortion, functional)
+  const fastest = standardRates.filter((r) => r.pass).pop()
 
   let statistical: UartChannelResult['statistical'] = null
-  if (input.chain.pwdTyp !== undefined && input.chain.pwdSigma !== undefined) {
+  if (noMarginReason === null && input.chain.pwdTyp !== undefined && input.chain.pwdSigma !== undefined) {
     const lo = Math.max(input.chain.pwd.min, input.chain.pwdTyp - 3 * input.chain.pwdSigma)
     const hi = Math.min(input.chain.pwd.max, input.chain.pwdTyp + 3 * input.chain.pwdSigma)
     const phys = { min: Math.min(lo, hi), max: Math.max(lo, hi) }
@@ -843,18 +880,110 @@ export function analyzeUartChannel(input: UartChannelInput): UartChannelResult {
     worstMarginUi: worstUi,
     worstBit,
     verdict,
-    maxBaud: mb.maxBaud,
-    maxBaudCap: mb.cap,
-    maxBaudCapped: mb.capped,
-    maxBaudLimitedBy: mb.limitedBy,
-    maxBaudNote: mb.note,
-    clockTolerance: tolerance,
+    functional,
+    noMarginReason,
+    maxBaud: search?.maxBaud ?? null,
+    maxBaudCap: search?.cap ?? baudCap(input),
+    maxBaudCapped: search?.capped ?? false,
+    maxBaudLimitedBy: search?.limitedBy ?? null,
+    maxBaudNote: search?.note ?? `No maximum rate: ${noMarginReason}.`,
+    clockTolerance: functional ? clockTolerance(layout, sampler, distortion, set.baud, req) : { slowest: null, fastest: null, slowestBit: null, fastestBit: null },
     rateSweep,
     standardRates,
-    berEstimate,
+    fastestStandardRate: fastest ? fastest.baud : null,
+    pulseCheck,
+    berEstimate: estimateBer(bits, distortion, set.berTarget, T),
     statistical,
     warnings,
   }
+}
+
+function capitalise(t: string): string {
+  return t.charAt(0).toUpperCase() + t.slice(1)
+}
+
+/** A quantisation error above 1 % is flagged (a common firmware rule of thumb). */
+function generatorWarnings(channelId: string, clocks: { tx: RateErrorBounds; rx: RateErrorBounds }, baud: number): Warning[] {
+  const out: Warning[] = []
+  for (const [end, b] of [
+    ['transmitter', clocks.tx],
+    ['receiver', clocks.rx],
+  ] as const)
+    if (b.generator && b.generator.reachable && Math.abs(b.generator.error) > 0.01)
+      out.push({
+        code: 'generator-error',
+        channel: channelId,
+        message: `The ${end}'s baud generator gives ${formatEng(b.generator.actualBaud, 'Bd', { digits: 5 })} for ${formatEng(baud, 'Bd', { digits: 5 })} (divisor ${b.generator.divisor}, error ${(b.generator.error * 100).toFixed(2)} %).`,
+      })
+  return out
+}
+
+/** Highest rate the search reports: the schema's limit, and what each baud generator reaches with divisor 1. */
+function baudCap(input: UartChannelInput): number {
+  let cap = MAX_BAUD_CAP
+  if (input.rx.clockHz !== undefined) cap = Math.min(cap, input.rx.clockHz / input.rx.oversampling)
+  if (input.tx.clockHz !== undefined) cap = Math.min(cap, input.tx.clockHz / (input.tx.oversampling ?? TX_DEFAULT_OVERSAMPLING))
+  return cap
+}
+
+/**
+ * Maximum baud meeting the required margin with each end at its stated error bound (a
+ * generator's oscillator tolerance; its quantisation depends on the rate and shows in the
+ * standard-rates table), below the pulse limit of the chain's stages.
+ */
+function maxBaudSearch(input: UartChannelInput, layout: FrameLayout, s: SamplerModel, d: Distortion, req: number): MaxBaudResult {
+  let cap = baudCap(input)
+  const stated = statedClockErrors(input.tx, input.rx)
+  let pulseNote = ''
+  if (input.pulseLimit) {
+    const pwdAbs = Math.max(Math.abs(d.pwd.min), Math.abs(d.pwd.max))
+    const limit = 1 / ((input.pulseLimit.seconds + pwdAbs) * (1 + stated.tx.max))
+    if (limit < cap) {
+      cap = limit
+      pulseNote = ` Stage '${input.pulseLimit.stage}' passes no pulse shorter than ${formatEng(input.pulseLimit.seconds, 's')}: no faster rate works.`
+    }
+  }
+  const r = maxBaud(layout, s, d, stated, req, cap)
+  return pulseNote && r.capped ? { ...r, capped: false, note: `Limited by the pulse width.${pulseNote}` } : r
+}
+
+/** Rate sweep for the plot: log-spaced around the configured and the maximum rate, clocks at their stated bounds. */
+function sweepRates(input: UartChannelInput, layout: FrameLayout, s: SamplerModel, table: CaseTable, max: number | null, cap: number): { baud: number; marginUi: number }[] {
+  const baud = input.settings.baud
+  const stated = statedClockErrors(input.tx, input.rx)
+  const top = Math.min(cap, Math.max(baud, max ?? baud) * 4)
+  const bottom = Math.max(1, Math.min(baud, max ?? baud) / 10)
+  const points = 64
+  const rates = new Set<number>([Math.min(baud, cap)])
+  if (max !== null) rates.add(max)
+  for (let i = 0; i < points; i++) rates.add(bottom * (top / bottom) ** (i / (points - 1)))
+  const fixed = fixedClockCases(layout, s, stated)
+  return [...rates]
+    .filter((b) => b <= cap)
+    .sort((a, b) => a - b)
+    .map((b) => ({ baud: b, marginUi: fixedClockWorstUi(fixed, table, b) }))
+}
+
+/** The usual rates, each with both generators recomputed at it. */
+function standardRateRows(input: UartChannelInput, table: CaseTable, d: Distortion, functional: boolean): StandardRateRow[] {
+  const req = input.settings.requiredMarginUi
+  return STANDARD_BAUD_RATES.map((baud) => {
+    const c = clocksAt(input, baud)
+    const gen = c.rx.generator ?? c.tx.generator
+    const unreachable = unreachableRate(c, baud)
+    const pulse = pulseCheckAt(input, d, c.tx, baud)
+    const note = !functional ? 'the channel cannot carry data' : unreachable ?? (pulse && !pulse.pass ? `pulse shorter than stage '${pulse.stage}' passes` : null)
+    const m = note === null ? tableWorstUi(table, { tx: c.tx, rx: c.rx }, baud) : null
+    return {
+      baud,
+      marginUi: m,
+      pass: m !== null && m >= req,
+      divisor: gen ? gen.divisor : null,
+      error: gen ? gen.error : null,
+      generators: { tx: c.tx.generator, rx: c.rx.generator },
+      note,
+    }
+  })
 }
 
 /**
@@ -891,6 +1020,6 @@ export function estimateBer(bits: readonly UartBitResult[], d: Distortion, berTa
     bits: rows,
     worstBitErrorProbability: worst,
     frameErrorProbability: frame,
-    meetsTarget: worst <= berTarget,
+    meetsTarget: bits.length > 0 && worst <= berTarget,
   }
 }

@@ -1,5 +1,6 @@
 /** Request bodies of the account routes (sign-up, sign-in, password reset, invitations). */
 import { z } from 'zod'
+import { cleanText } from './text'
 
 /** An e-mail address, trimmed and lower-cased (addresses are unique case-insensitively). */
 export const Email = z
@@ -15,17 +16,9 @@ export const NewPassword = z
   .min(10, 'password must be at least 10 characters')
   .max(200, 'password is at most 200 characters')
 
-export const PersonName = z
-  .string({ error: 'name is required' })
-  .trim()
-  .min(1, 'name is required')
-  .max(120, 'name is at most 120 characters')
+export const PersonName = cleanText(z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120, 'name is at most 120 characters'), 'name')
 
-export const TeamName = z
-  .string({ error: 'teamName is required' })
-  .trim()
-  .min(1, 'teamName is required')
-  .max(120, 'teamName is at most 120 characters')
+export const TeamName = cleanText(z.string({ error: 'teamName is required' }).trim().min(1, 'teamName is required').max(120, 'teamName is at most 120 characters'), 'teamName')
 
 /** Opaque token from an e-mailed link (base64url). */
 export const MailToken = z

@@ -1,4 +1,5 @@
 import { z } from 'zod'
+import { cleanText } from './text'
 
 /** Upload limits, stated in the UI and enforced by the server (bytes). */
 export const CAPTURE_MAX_BYTES = 48 * 1024 * 1024
@@ -16,7 +17,7 @@ const formOhms = z.preprocess((v) => (v === '' || v === undefined ? undefined : 
  * user sees them (the first voltage column is channel 1).
  */
 export const CaptureUploadFields = z.object({
-  label: z.string().trim().max(200, 'label is at most 200 characters').optional(),
+  label: cleanText(z.string().trim().max(200, 'label is at most 200 characters'), 'label').optional(),
   /** the path's input channel (default 1) */
   inputChannel: formChannel,
   /** the path's output channel (default 2 when the capture has two or more) */

@@ -7,6 +7,8 @@
  * them): add fields, never rename them.
  */
 import { z } from 'zod'
+import { cleanText } from './text'
+import { ctrTypOf, ledCurrentOf, POINT_DEFAULT_LED_CURRENT, POINT_DEFAULT_LOAD_CAP, rbeDivertedCurrent, VBE_HIGH } from '../utils/coupler'
 
 export const LINK_SCHEMA_VERSION = 1
 
@@ -53,6 +55,11 @@ export const ThresholdSpec = z.union([
 ])
 export type ThresholdSpec = z.infer<typeof ThresholdSpec>
 
+/** The middle of a threshold given as a value or a range, volts. */
+export function thresholdMid(t: ThresholdSpec): number {
+  return typeof t === 'number' ? t : (t.min + t.max) / 2
+}
+
 /** Corner range of a signed time (clock-to-output, skew), seconds. */
 export const TimeRange = z
   .object({ min: SignedSeconds, max: SignedSeconds })
@@ -63,7 +70,7 @@ export type TimeRange = z.infer<typeof TimeRange>
 
 /** Fields every stage may carry. */
 const stageCommon = {
-  name: z.string().trim().min(1, 'name is required').max(120, 'name is at most 120 characters'),
+  name: cleanText(z.string().trim().min(1, 'name is required').max(120, 'name is at most 120 characters'), 'name'),
   /** part-to-part delay skew bound for this stage class, seconds (both edges) */
   partSkew: Seconds.optional(),
   /** random jitter added by this stage, rms seconds */
@@ -81,8 +88,22 @@ const stageCommon = {
   vLow: Volts.optional(),
   vHigh: Volts.optional(),
   /** Part library entry this stage was taken from (informational). */
-  partId: z.string().max(64).optional(),
+  partId: cleanText(z.string().max(64), 'partId').optional(),
 }
+
+/** Thresholds of a Schmitt-trigger input, volts (each a value or a min/max range). */
+export const SchmittThresholds = z
+  .object({
+    /** positive-going threshold VT+ */
+    vtPlus: ThresholdSpec,
+    /** negative-going threshold VT- */
+    vtMinus: ThresholdSpec,
+  })
+  .refine((t) => thresholdMid(t.vtPlus) >= thresholdMid(t.vtMinus), {
+    message: 'VT+ must not lie below VT- (a Schmitt input switches up at the higher threshold)',
+    path: ['vtPlus'],
+  })
+export type SchmittThresholds = z.infer<typeof SchmittThresholds>
 
 export const DigitalStage = z.object({
   kind: z.literal('digital'),
@@ -95,20 +116,52 @@ export const DigitalStage = z.object({
   tr: TransitionSpec.optional(),
   tf: TransitionSpec.optional(),
   edge: z.enum(['ramp', 'exponential']).default('ramp'),
+  /** a Schmitt-trigger input (a buffer after a slow coupler): its thresholds, volts of the previous swing */
+  schmittInput: SchmittThresholds.optional(),
+  /** shortest input pulse the part passes, seconds (digital isolators); a shorter one is lost */
+  minPulseWidth: Seconds.optional(),
+  /** highest data rate the part is specified for, bit/s */
+  maxDataRate: num(1, 10e9, 'maximum data rate (bit/s)').optional(),
+  /** input glitch filter: pulses shorter than this are suppressed, seconds */
+  glitchFilter: Seconds.optional(),
+  /** output level when the input side loses its supply (digital isolators) */
+  failsafe: z.enum(['high', 'low']).optional(),
 })
 export type DigitalStage = z.infer<typeof DigitalStage>
 
-/** One characterisation point read from a datasheet curve or a measurement. */
-export const CharacterizationPoint = z.object({
-  /** load (pull-up) resistance of this point, ohms */
-  rl: Ohms,
-  tplh: Seconds.optional(),
-  tphl: Seconds.optional(),
-  tr: Seconds.optional(),
-  tf: Seconds.optional(),
-  /** load capacitance at which the point was taken, farads (default: the stage's loadCap) */
-  loadCap: Farads.optional(),
-})
+/** A switching time of a characterisation point: a real coupler never switches in zero time. */
+const PointTime = z
+  .number({ error: 'time (s) must be a number' })
+  .gt(0, 'a characterised time must be above 0 s')
+  .max(1, 'time (s) must be at most 1')
+
+/**
+ * One characterisation point read from a datasheet curve or a measurement: the times at
+ * the conditions it was taken at. Conditions it does not state are taken at stated
+ * defaults (LED current: the stage's CTR test current, else 10 mA; load: 0 F, an unloaded
+ * test; supply: the stage's; no base-emitter resistor), never at the stage's present values.
+ */
+export const CharacterizationPoint = z
+  .object({
+    /** load (pull-up) resistance of this point, ohms */
+    rl: Ohms,
+    tplh: PointTime.optional(),
+    tphl: PointTime.optional(),
+    tr: PointTime.optional(),
+    tf: PointTime.optional(),
+    /** LED current at which the point was taken, amperes */
+    ledCurrent: num(1e-6, 100, 'LED current (A)').optional(),
+    /** load capacitance at which the point was taken, farads */
+    loadCap: Farads.optional(),
+    /** output supply at which the point was taken, volts */
+    vcc: num(0.5, 1000, 'output supply vcc (V)').optional(),
+    /** base-emitter resistor fitted when the point was taken, ohms */
+    rbe: Ohms.optional(),
+  })
+  .refine((p) => p.tplh !== undefined || p.tphl !== undefined || p.tr !== undefined || p.tf !== undefined, {
+    message: 'a characterisation point needs at least one of tplh, tphl, tr, tf',
+    path: ['tplh'],
+  })
 export type CharacterizationPoint = z.infer<typeof CharacterizationPoint>
 
 export const PhototransistorStage = z
@@ -127,8 +180,14 @@ export const PhototransistorStage = z
     rLed: Ohms.optional(),
     /** LED forward current, amperes (instead of rLed) */
     ledCurrent: Amperes.optional(),
+    /** what drives the LED: a logic pin (its current limit applies) or a transistor switch */
+    driver: z.enum(['pin', 'transistor']).default('pin'),
+    /** the driver's own output drop at the drive current (V_OL or V_OH), volts; default by driver */
+    driverDrop: num(0, 5, 'driver output drop (V)').optional(),
     /** minimum current transfer ratio as a fraction (0.2 = 20 %) at ctrTestCurrent */
     ctrMin: num(0.0001, 100, 'CTR (fraction)'),
+    /** typical current transfer ratio as a fraction; default a stated multiple of ctrMin */
+    ctrTyp: num(0.0001, 100, 'typical CTR (fraction)').optional(),
     /** LED current at which ctrMin is specified, amperes */
     ctrTestCurrent: Amperes.optional(),
     /** multiplicative CTR derating factors (0..1] */
@@ -146,17 +205,67 @@ export const PhototransistorStage = z
     vceSat: PositiveVolts.default(0.4),
     /** load capacitance on the output node, farads */
     loadCap: Farads.default(0),
+    /** base-emitter resistor (parts with a base pin), ohms: a speed-up that costs CTR */
+    rbe: Ohms.optional(),
+    /** current gain of the output transistor (needed with rbe); default stated in the assumptions */
+    hfe: num(1, 100000, 'current gain hfe').optional(),
     ledCurrentMax: Amperes.optional(),
     collectorCurrentMax: Amperes.optional(),
     /** total package dissipation limit, watts */
     powerMax: Watts.optional(),
-    /** the driving pin's current limit, amperes */
+    /** the driving pin's current limit, amperes (default by driver: 20 mA for a pin, none for a transistor) */
     driverCurrentMax: Amperes.optional(),
     characterization: z.array(CharacterizationPoint).min(1, 'at least one characterisation point is needed').max(32),
   })
   .refine((s) => s.rLed !== undefined || s.ledCurrent !== undefined, {
     message: 'give rLed or ledCurrent',
     path: ['rLed'],
+  })
+  .superRefine((s, ctx) => {
+    if (s.ctrTyp !== undefined && s.ctrTyp < s.ctrMin)
+      ctx.addIssue({ code: 'custom', path: ['ctrTyp'], message: 'typical CTR must be at least ctrMin' })
+    const passiveIsRise = (s.wiring ?? 'collector') === 'collector'
+    const pointLed = s.ctrTestCurrent ?? POINT_DEFAULT_LED_CURRENT
+    s.characterization.forEach((p, i) => {
+      // the slow (passive) edge reaches 50 % no sooner than ln 2 / ln 9 of its 10-90 % time
+      const delay = passiveIsRise ? p.tplh : p.tphl
+      const edge = passiveIsRise ? p.tr : p.tf
+      const names = passiveIsRise ? ['tplh', 'tr'] : ['tphl', 'tf']
+      if (delay !== undefined && edge !== undefined && delay < (edge * Math.LN2) / Math.log(9) * (1 - 1e-9))
+        ctx.addIssue({
+          code: 'custom',
+          path: ['characterization', i, names[0]!],
+          message: `${names[0]} is below the 50 % share of ${names[1]} (${names[1]} x ln 2 / ln 9): the passive edge cannot reach 50 % that early`,
+        })
+      for (let j = 0; j < i; j++) {
+        const q = s.characterization[j]!
+        const close = (a: number, b: number) => Math.abs(a - b) <= 0.01 * Math.max(Math.abs(a), Math.abs(b))
+        if (
+          close(p.rl, q.rl) &&
+          close(p.ledCurrent ?? pointLed, q.ledCurrent ?? pointLed) &&
+          close(p.loadCap ?? POINT_DEFAULT_LOAD_CAP, q.loadCap ?? POINT_DEFAULT_LOAD_CAP) &&
+          close(p.vcc ?? s.vcc, q.vcc ?? s.vcc) &&
+          (p.rbe === undefined) === (q.rbe === undefined) &&
+          (p.rbe === undefined || close(p.rbe, q.rbe!))
+        )
+          ctx.addIssue({
+            code: 'custom',
+            path: ['characterization', i, 'rl'],
+            message: `points ${j + 1} and ${i + 1} were taken at the same conditions (RL, LED current, load within 1 %): merge them into one point`,
+          })
+      }
+    })
+    // a base-emitter resistor that takes more than the typical photocurrent leaves the output off for good
+    if (s.rbe !== undefined) {
+      const available = ctrTypOf(s) * ledCurrentOf(s)
+      const diverted = rbeDivertedCurrent(s.rbe, s.hfe, VBE_HIGH)
+      if (available > 0 && diverted >= available)
+        ctx.addIssue({
+          code: 'custom',
+          path: ['rbe'],
+          message: `rbe diverts hFE x VBE / rbe = ${(diverted * 1e3).toPrecision(3)} mA of collector current, more than the ${(available * 1e3).toPrecision(3)} mA the typical CTR gives: the output never switches; raise rbe`,
+        })
+    }
   })
 export type PhototransistorStage = z.infer<typeof PhototransistorStage>
 
@@ -204,11 +313,15 @@ export const ReceiverSpec = z
     /** longest input transition the input tolerates, seconds (non-Schmitt inputs) */
     maxInputTransition: Seconds.optional(),
     /** logic-family preset the thresholds came from (informational) */
-    family: z.string().max(40).optional(),
+    family: cleanText(z.string().max(40), 'family').optional(),
   })
   .refine((r) => r.vil < r.vih, { message: 'vil must be below vih', path: ['vil'] })
   .refine((r) => !r.schmitt || (r.vtPlus !== undefined && r.vtMinus !== undefined), {
     message: 'a Schmitt input needs vtPlus and vtMinus',
+    path: ['vtPlus'],
+  })
+  .refine((r) => !r.schmitt || r.vtPlus === undefined || r.vtMinus === undefined || thresholdMid(r.vtPlus) >= thresholdMid(r.vtMinus), {
+    message: 'vtPlus must not lie below vtMinus (a Schmitt input switches up at the higher threshold)',
     path: ['vtPlus'],
   })
 export type ReceiverSpec = z.infer<typeof ReceiverSpec>
@@ -222,7 +335,7 @@ export const ChannelSpec = z.object({
     .regex(/^[A-Za-z0-9_-]{1,32}$/, 'channel id: 1-32 letters, digits, - or _'),
   role: ChannelRole,
   /** free text, e.g. "board A TX -> board B RX" */
-  label: z.string().max(120).optional(),
+  label: cleanText(z.string().max(120), 'label').optional(),
   stages: z.array(StageSpec).max(24, 'at most 24 stages per channel'),
   receiver: ReceiverSpec,
 })
@@ -389,9 +502,9 @@ export type Protocol = z.infer<typeof Protocol>
 export const LinkSpec = z
   .object({
     schemaVersion: z.literal(LINK_SCHEMA_VERSION, { error: `schemaVersion must be ${LINK_SCHEMA_VERSION}` }),
-    name: z.string().trim().min(1, 'name is required').max(200, 'name is at most 200 characters'),
+    name: cleanText(z.string().trim().min(1, 'name is required').max(200, 'name is at most 200 characters'), 'name'),
     protocol: Protocol,
-    description: z.string().max(4000).optional(),
+    description: cleanText(z.string().max(4000), 'description').optional(),
     channels: z.array(ChannelSpec).min(1, 'a link needs at least one channel').max(16, 'at most 16 channels'),
     uart: UartSettings.optional(),
     spi: SpiSettings.optional(),

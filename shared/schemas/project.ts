@@ -1,12 +1,9 @@
 /** Request bodies of the project routes. */
 import { z } from 'zod'
+import { cleanText } from './text'
 
-export const ProjectName = z
-  .string({ error: 'name is required' })
-  .trim()
-  .min(1, 'name is required')
-  .max(200, 'name is at most 200 characters')
-export const ProjectDescription = z.string().max(4000, 'description is at most 4000 characters')
+export const ProjectName = cleanText(z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(200, 'name is at most 200 characters'), 'name')
+export const ProjectDescription = cleanText(z.string().max(4000, 'description is at most 4000 characters'), 'description')
 
 /** Optimistic-locking token: the version the edit was based on. */
 export const Version = z.number({ error: 'version is required' }).int('version must be an integer').min(1, 'version must be at least 1')

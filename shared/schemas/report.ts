@@ -3,6 +3,7 @@
  * The routes validate with these; the report page builds its requests from the same types.
  */
 import { z } from 'zod'
+import { cleanText } from './text'
 
 /** Review states of a revision (product.md): draft, submitted, signed off, returned. */
 export const REPORT_STATES = ['draft', 'submitted', 'signed-off', 'returned'] as const
@@ -36,7 +37,7 @@ export const CommentTarget = z.discriminatedUnion('kind', [
 ])
 export type CommentTarget = z.infer<typeof CommentTarget>
 
-const Body = z.string({ error: 'comment must be text' }).trim().min(1, 'comment is required').max(4000, 'comment is at most 4000 characters')
+const Body = cleanText(z.string({ error: 'comment must be text' }).trim().min(1, 'comment is required').max(4000, 'comment is at most 4000 characters'), 'comment')
 
 /** Optional pull-up sweep recorded with a revision (UART links with a phototransistor stage). */
 export const FreezePullup = z.object({

@@ -9,11 +9,14 @@
  *   (the engine's convention that min/max are +-3 sigma, timing-model.md section 1);
  *   tr / tf (when measured) as typ = mean, max likewise.
  * - `characterization`: a phototransistor stage gets a characterisation point (RL, tPLH,
- *   tPHL, tr, tf) at the RL the capture was taken at; a point at the same RL is replaced.
+ *   tPHL, tr, tf) at the RL the capture was taken at, with the conditions of the board it
+ *   was taken on (the stage's LED current, load, supply and base-emitter resistor); a point
+ *   at the same conditions (within 1 %) is replaced.
  */
 import type { CaptureResult } from '../../server/captures/analyse'
 import type { SummaryStats } from '../../server/captures/stats'
 import type { CharacterizationPoint, DelaySpec, Link, TransitionSpec } from '../schemas/link'
+import { ledCurrentOf } from './coupler'
 
 export type ApplyMode = 'typical' | 'characterization'
 
@@ -72,18 +75,26 @@ export function applyCaptureToStage(spec: Link, at: StageRef, result: CaptureRes
     if (stage.kind !== 'phototransistor') throw new Error(`a characterisation point applies to a phototransistor stage; "${stage.name}" is a ${stage.kind} stage`)
     const rl = opts.rl
     if (rl === undefined || !(rl > 0)) throw new Error('give the pull-up RL the capture was taken at')
+    // the capture was taken on this board: the stage's own conditions
+    const ledCurrent = ledCurrentOf(stage)
     const point: CharacterizationPoint = {
       rl,
+      ...(ledCurrent > 0 ? { ledCurrent } : {}),
+      loadCap: stage.loadCap ?? 0,
+      vcc: stage.vcc,
+      ...(stage.rbe !== undefined ? { rbe: stage.rbe } : {}),
       tplh: p.tPLH.mean,
       tphl: p.tPHL.mean,
       ...(out?.tr ? { tr: out.tr.mean } : {}),
       ...(out?.tf ? { tf: out.tf.mean } : {}),
     }
-    const i = stage.characterization.findIndex((c) => Math.abs(c.rl - rl) <= 1e-9 * rl)
+    const close = (a: number | undefined, b: number | undefined) => (a === undefined || b === undefined ? a === b : Math.abs(a - b) <= 0.01 * Math.max(Math.abs(a), Math.abs(b)))
+    const i = stage.characterization.findIndex(
+      (c) => close(c.rl, rl) && close(c.ledCurrent, point.ledCurrent) && close(c.loadCap ?? 0, point.loadCap) && close(c.vcc ?? stage.vcc, stage.vcc) && close(c.rbe, point.rbe),
+    )
     if (i >= 0) {
-      // keep the point's load capacitance: the capture was taken on the same board
-      stage.characterization[i] = { ...stage.characterization[i], ...point }
-      changes.push(`characterisation point at RL ${rl} ohm replaced`)
+      stage.characterization[i] = point
+      changes.push(`characterisation point at RL ${rl} ohm and these conditions replaced`)
     } else {
       if (stage.characterization.length >= 32) throw new Error('the stage already has 32 characterisation points')
       stage.characterization.push(point)

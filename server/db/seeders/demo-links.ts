@@ -4,93 +4,18 @@
  */
 import type { LinkInput } from '../../../shared/schemas/link'
 import { RECEIVER_PRESETS } from '../../../shared/utils/receiver-presets'
-
-type StageInput = LinkInput['channels'][number]['stages'][number]
+import { BUILT_IN_PARTS, DIS4, LOC10, PTC20 } from '../../../shared/parts/generic'
 
 const lvcmos33 = RECEIVER_PRESETS[0]
+const mcuSchmitt33 = RECEIVER_PRESETS.find((r) => r.family === 'Schmitt MCU 3.3 V')!
 
-/** Generic 20 %-CTR phototransistor coupler, collector pull-up (inverting), LED lit by a high pin. */
-export const PTC20: StageInput = {
-  kind: 'phototransistor',
-  name: 'PTC-20 generic phototransistor coupler',
-  wiring: 'collector',
-  ledOnWhen: 'high',
-  driveVoltage: 3.3,
-  vf: 1.2,
-  rLed: 430,
-  ctrMin: 0.2,
-  ctrTestCurrent: 0.005,
-  ctrDerating: { temperature: 0.9, endOfLife: 0.85 },
-  vcc: 3.3,
-  rl: 4700,
-  vceSat: 0.4,
-  loadCap: 15e-12,
-  ledCurrentMax: 0.05,
-  collectorCurrentMax: 0.05,
-  powerMax: 0.15,
-  driverCurrentMax: 0.025,
-  partSkew: 2e-6,
-  characterization: [
-    { rl: 1000, tplh: 5e-6, tphl: 2.0e-6, tr: 3.5e-6, tf: 1.5e-6, loadCap: 15e-12 },
-    { rl: 4700, tplh: 22e-6, tphl: 3.0e-6, tr: 15e-6, tf: 2.0e-6, loadCap: 15e-12 },
-    { rl: 10000, tplh: 45e-6, tphl: 4.0e-6, tr: 30e-6, tf: 2.5e-6, loadCap: 15e-12 },
-  ],
-}
+export { BUILT_IN_PARTS, DIS4, LOC10, PTC20 }
 
-/** Generic logic-output coupler (push-pull output, inverting). */
-export const LOC10: StageInput = {
-  kind: 'digital',
-  name: 'LOC-10 generic logic-output coupler',
-  inverting: true,
-  tplh: { min: 20e-9, typ: 45e-9, max: 100e-9 },
-  tphl: { min: 20e-9, typ: 40e-9, max: 100e-9 },
-  pwdMax: 35e-9,
-  tr: { typ: 15e-9, max: 30e-9 },
-  tf: { typ: 10e-9, max: 25e-9 },
-  edge: 'ramp',
-  partSkew: 40e-9,
-}
-
-/** One channel of a generic four-channel digital isolator. */
-export const DIS4: StageInput = {
-  kind: 'digital',
-  name: 'DIS-4 generic four-channel digital isolator',
-  inverting: false,
-  tplh: { min: 8e-9, typ: 11e-9, max: 15e-9 },
-  tphl: { min: 8e-9, typ: 11e-9, max: 15e-9 },
-  pwdMax: 3e-9,
-  tr: { typ: 2e-9, max: 3e-9 },
-  tf: { typ: 2e-9, max: 3e-9 },
-  edge: 'ramp',
-  partSkew: 6e-9,
-  jitterRms: 0.1e-9,
-}
-
-/** Generic CMOS buffer, non-inverting. */
-export const BUF1: StageInput = {
-  kind: 'digital',
-  name: 'BUF-1 generic CMOS buffer',
-  inverting: false,
-  tplh: { min: 1e-9, typ: 3e-9, max: 6e-9 },
-  tphl: { min: 1e-9, typ: 3e-9, max: 6e-9 },
-  tr: { typ: 1e-9, max: 2e-9 },
-  tf: { typ: 1e-9, max: 2e-9 },
-  edge: 'ramp',
-}
-
-/** One metre of board-to-board cable at 5 ns/m. */
-export const CABLE1M: StageInput = { kind: 'wire', name: 'Ribbon cable, 1 m', length: 1, delayPerMeter: 5e-9 }
-
-/** The built-in part library: generic parameter sets for common stage classes. */
-export const BUILT_IN_PARTS: { name: string; category: string; description: string; stage: StageInput }[] = [
-  { name: PTC20.name, category: 'phototransistor coupler', description: 'Slow, asymmetric edges; timing depends strongly on the pull-up. CTR 20 % min at 5 mA.', stage: PTC20 },
-  { name: LOC10.name, category: 'logic-output coupler', description: 'Push-pull output, up to about 1 Mbit/s; PWD 35 ns max.', stage: LOC10 },
-  { name: DIS4.name, category: 'digital isolator', description: 'Four channels in one package; 15 ns max delay, 3 ns PWD.', stage: DIS4 },
-  { name: BUF1.name, category: 'buffer', description: 'Generic single CMOS buffer.', stage: BUF1 },
-  { name: CABLE1M.name, category: 'cable', description: 'Delay only: 5 ns per metre.', stage: CABLE1M },
-]
-
-/** Gate-driver board telemetry to the display controller: fails at 38400 baud with the 4.7 kOhm pull-up. */
+/**
+ * Gate-driver board telemetry to the display controller: fails at its specified 38400 baud
+ * with the 4.7 kOhm pull-up; no pull-up and LED resistor within the coupler's ratings makes
+ * it pass (its slow edge is dominated by storage), and the sweep says which speed-up does.
+ */
 export const TELEMETRY_LINK: LinkInput = {
   schemaVersion: 1,
   name: 'Gate-driver telemetry UART',
@@ -102,7 +27,7 @@ export const TELEMETRY_LINK: LinkInput = {
       role: 'uart',
       label: 'gate driver TX -> display RX',
       stages: [PTC20],
-      receiver: { ...lvcmos33, invert: true, maxInputTransition: 50e-6 },
+      receiver: { ...mcuSchmitt33, invert: true },
     },
   ],
   uart: {

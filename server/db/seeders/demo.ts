@@ -29,16 +29,26 @@ export function hashDemoPassword(password: string) {
   return new Hash(new Scrypt({})).make(password)
 }
 
-/** Insert the built-in parts that are missing (by name); each stage is validated with StageSpec. */
+/**
+ * Insert the built-in parts that are missing (by name) and bring the existing ones up to
+ * the library's current class values (built-ins are read-only to teams: the library owns
+ * them); each stage is validated with StageSpec. Returns how many were added or updated.
+ */
 export async function seedBuiltInParts(transaction?: Transaction): Promise<number> {
-  let added = 0
+  let changed = 0
   for (const p of BUILT_IN_PARTS) {
-    if (await Part.findOne({ where: { teamId: null, name: p.name }, transaction })) continue
     const stage = StageSpec.parse(p.stage)
-    await Part.create({ teamId: null, name: p.name, category: p.category as Part['category'], description: p.description, stage, createdBy: null, updatedBy: null }, { transaction })
-    added++
+    const category = p.category as Part['category']
+    const existing = await Part.findOne({ where: { teamId: null, name: p.name }, transaction })
+    if (!existing) {
+      await Part.create({ teamId: null, name: p.name, category, description: p.description, stage, createdBy: null, updatedBy: null }, { transaction })
+      changed++
+    } else if (JSON.stringify(existing.stage) !== JSON.stringify(stage) || existing.description !== p.description || existing.category !== category) {
+      await existing.update({ stage, description: p.description, category }, { transaction })
+      changed++
+    }
   }
-  return added
+  return changed
 }
 
 export async function seedDemo(sequelize: Sequelize): Promise<boolean> {

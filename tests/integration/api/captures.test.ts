@@ -140,7 +140,9 @@ describe('captures: upload, extraction job, results', () => {
     const { spec } = applyCaptureToStage(link.data.spec, { channel: 0, stage: 0 }, capture.result, 'characterization', { rl: capture.options.rl })
     const saved = await world.clients.engineer.patch(`/api/links/${linkId}`, { version: link.data.version, spec })
     expect(saved.status, JSON.stringify(saved.data)).toBe(200)
-    const point = saved.data.spec.channels[0].stages[0].characterization.find((c: { rl: number }) => c.rl === 4700)
+    // the board's point: the stage's own supply (the library's points were taken at 5 V)
+    const boardVcc = link.data.spec.channels[0].stages[0].vcc
+    const point = saved.data.spec.channels[0].stages[0].characterization.find((c: { rl: number; vcc?: number }) => c.rl === 4700 && c.vcc === boardVcc)
     expect(point.tplh).toBeCloseTo(capture.result.pairing.tPLH.mean, 12)
     expect(point.tphl).toBeCloseTo(capture.result.pairing.tPHL.mean, 12)
     // a second apply on the old version is refused, not silently merged

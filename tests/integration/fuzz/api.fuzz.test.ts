@@ -141,7 +141,8 @@ describe('API fuzzing', () => {
     }
     expect(failures).toEqual([])
     // the session works: some mutations stay valid and are analysed, most are refused
-    expect(statuses.get(200)).toBeGreaterThan(50)
+    // (the schema refuses more mutations since issue 18: characterisation points, thresholds, causality)
+    expect(statuses.get(200)).toBeGreaterThan(30)
     expect(statuses.get(400)).toBeGreaterThan(300)
     expect(statuses.get(401)).toBeUndefined()
   })

@@ -105,6 +105,14 @@ describe('chain PWD', () => {
 
 const delay = fc.double({ min: 0, max: 1e-6, noNaN: true })
 const transition = fc.double({ min: 0, max: 2e-7, noNaN: true }).map((t) => ({ typ: t, max: t }))
+/**
+ * Delay corners a real part can have with transition time t: its 50 % to 50 % delay is at
+ * least 0.625 t, so no threshold crossing comes before the driving edge (a ramp crosses
+ * 0 % of its swing 0.625 t before its 50 % point). Issue 18: corners that put an edge before
+ * its cause are rejected.
+ */
+const causalCorners = (t: { max: number }) =>
+  fc.tuple(delay, delay, delay).map((v) => v.map((x) => x + 0.625 * t.max).sort((a, b) => a - b)).map(([min, typ, max]) => ({ min: min!, typ: typ!, max: max! }))
 
 describe('chain properties', () => {
   it('symmetric delays with fast edges give zero PWD', () => {
@@ -133,9 +141,11 @@ describe('chain properties', () => {
   })
 
   it('two identical inverting stages in series cancel the nominal PWD', () => {
-    const corners = fc.tuple(delay, delay, delay).map((v) => v.sort((a, b) => a - b)).map(([min, typ, max]) => ({ min, typ, max }))
+    const stage = fc
+      .tuple(transition, transition)
+      .chain(([tr, tf]) => fc.tuple(causalCorners(tr), causalCorners(tf), fc.constant(tr), fc.constant(tf)))
     fc.assert(
-      fc.property(corners, corners, transition, transition, fc.constantFrom('ramp' as const, 'exponential' as const), (tplh, tphl, tr, tf, edge) => {
+      fc.property(stage, fc.constantFrom('ramp' as const, 'exponential' as const), ([tplh, tphl, tr, tf], edge) => {
         const s = { kind: 'digital' as const, name: 'generic inverting buffer', inverting: true, tplh, tphl, tr, tf, edge }
         const c = chainOf([s, s])
         expect(Math.abs(c.pwdTyp)).toBeLessThan(1e-15)
@@ -146,9 +156,11 @@ describe('chain properties', () => {
   })
 
   it('the PWD interval lies within the delay corners', () => {
-    const corners = fc.tuple(delay, delay, delay).map((v) => v.sort((a, b) => a - b)).map(([min, typ, max]) => ({ min, typ, max }))
+    const stage = fc
+      .tuple(transition, transition, fc.boolean())
+      .chain(([tr, tf, inverting]) => fc.tuple(causalCorners(tr), causalCorners(tf), fc.constant(inverting), fc.constant(tr), fc.constant(tf)))
     fc.assert(
-      fc.property(fc.array(fc.tuple(corners, corners, fc.boolean(), transition, transition), { minLength: 1, maxLength: 4 }), (st) => {
+      fc.property(fc.array(stage, { minLength: 1, maxLength: 4 }), (st) => {
         const c = chainOf(st.map(([tplh, tphl, inverting, tr, tf]) => ({ kind: 'digital' as const, name: 'generic isolator', inverting, tplh, tphl, tr, tf })))
         expect(c.pwd.min).toBeGreaterThanOrEqual(c.rise.min - c.fall.max - 1e-15)
         expect(c.pwd.max).toBeLessThanOrEqual(c.rise.max - c.fall.min + 1e-15)

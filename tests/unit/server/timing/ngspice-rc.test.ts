@@ -5,8 +5,8 @@
  * ngspice is required: without it these tests fail with a plain message.
  */
 import { beforeAll, describe, expect, it } from 'vitest'
-import { PhototransistorStage } from '../../../../shared/schemas/link'
-import { phototransistorModel } from '../../../../server/timing/phototransistor'
+import { RcStage } from '../../../../shared/schemas/link'
+import { rcStageModel } from '../../../../server/timing/stages'
 import { thresholdOffset } from '../../../../server/timing/edges'
 import { requireNgspice, runRcEdges, type RcEdgeCase, type RcEdgeMeasured } from '../../../../bench/ngspice-rc'
 
@@ -31,25 +31,9 @@ function cases(): RcEdgeCase[] {
   }))
 }
 
-/** A stage whose own switching is instantaneous, so only the load term remains. */
-function rcOnlyStage(wiring: 'collector' | 'emitter', r: number, c: number) {
-  return PhototransistorStage.parse({
-    kind: 'phototransistor',
-    name: 'ideal-switch coupler (test)',
-    wiring,
-    driveVoltage: 5,
-    vf: 1.2,
-    ledCurrent: 0.02,
-    ctrMin: 1,
-    vcc: VCC,
-    rl: r,
-    vceSat: VLOW,
-    loadCap: c,
-    characterization: [
-      { rl: 100, tplh: 0, tphl: 0, tr: 0, tf: 0, loadCap: 0 },
-      { rl: 100e3, tplh: 0, tphl: 0, tr: 0, tf: 0, loadCap: 0 },
-    ],
-  })
+/** A pull-up (or pull-down) resistor charging the load after an ideal switch: the rc stage. */
+function rcOnlyStage(passive: 'rise' | 'fall', r: number, c: number) {
+  return RcStage.parse({ kind: 'rc', name: 'ideal switch and load (test)', r, c, passive, vLow: passive === 'rise' ? VLOW : 0, vHigh: VCC })
 }
 
 let measured: RcEdgeMeasured[] = []
@@ -65,7 +49,7 @@ describe('RC edge of a stage output against ngspice', () => {
   it.each(grid.map((g, i) => [g.r, g.c, i] as const))('pull-up %s ohm, load %s F: tr and tPLH of the passive rise', (r, c, i) => {
     // timing-model.md 1 and 5: tr = RC ln 9 (2.197 RC), 50 % at RC ln 2 (references.md 5.2)
     const m = measured[i]!.rise
-    const model = phototransistorModel(rcOnlyStage('collector', r, c)).model
+    const model = rcStageModel(rcOnlyStage('rise', r, c), VCC)
     const tau = r * c
     close(model.tr.typ, m.p90! - m.p10!, tau)
     close(model.tplh.typ, m.p50!, tau)
@@ -74,7 +58,7 @@ describe('RC edge of a stage output against ngspice', () => {
 
   it.each(grid.map((g, i) => [g.r, g.c, i] as const))('emitter resistor %s ohm, load %s F: tf and tPHL of the passive fall', (r, c, i) => {
     const m = measured[i]!.fall
-    const model = phototransistorModel(rcOnlyStage('emitter', r, c)).model
+    const model = rcStageModel(rcOnlyStage('fall', r, c), VCC)
     const tau = r * c
     close(model.tf.typ, m.p10! - m.p90!, tau)
     close(model.tphl.typ, m.p50!, tau)

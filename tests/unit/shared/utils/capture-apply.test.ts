@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest'
 import { LinkSpec } from '../../../../shared/schemas/link'
+import { ledCurrentOf } from '../../../../shared/utils/coupler'
 import { applyCaptureToStage, delayCorners } from '../../../../shared/utils/capture-apply'
 import { analyseCapture } from '../../../../server/captures/analyse'
 import { parseCapture } from '../../../../server/captures/parse'
@@ -27,8 +28,9 @@ describe('apply a capture to a stage', () => {
     expect(delayCorners({ count: 3, min: 1e-9, mean: 2e-9, max: 3e-9, sigma: 5e-9 }).min).toBe(0)
   })
 
-  it('a characterisation point at the measured RL on the telemetry coupler; the spec stays valid', async () => {
-    // timing-model.md 5 and 6: a (RL, time) point per quantity; a point at the same RL is replaced
+  it('a characterisation point at the measured RL and the board\'s conditions on the telemetry coupler; the spec stays valid', async () => {
+    // timing-model.md 5 and 6: a point carries the conditions it was taken at (issue 11: LED current, load);
+    // a capture is taken on the board, so at the stage's own LED current, load and supply
     const r = await couplerResult(22e-6, 3e-6, true)
     const spec = LinkSpec.parse(TELEMETRY_LINK)
     const before = spec.channels[0]!.stages[0]!
@@ -36,16 +38,24 @@ describe('apply a capture to a stage', () => {
     const applied = applyCaptureToStage(spec, { channel: 0, stage: 0 }, r, 'characterization', { rl: 4700 })
     const after = applied.spec.channels[0]!.stages[0]!
     if (after.kind !== 'phototransistor') throw new Error('kind changed')
-    expect(after.characterization).toHaveLength(before.characterization.length)
-    const p = after.characterization.find((c) => c.rl === 4700)!
+    // the datasheet points were taken at other conditions: the board's point is added
+    expect(after.characterization).toHaveLength(before.characterization.length + 1)
+    const p = after.characterization.find((c) => c.rl === 4700 && c.vcc === before.vcc)!
     expect(Math.abs(p.tplh! - 22e-6)).toBeLessThan(0.1e-6)
     expect(Math.abs(p.tphl! - 3e-6)).toBeLessThan(0.1e-6)
     expect(Math.abs(p.tr! - 3e-6 * Math.log(9))).toBeLessThan(0.02 * 3e-6 * Math.log(9)) // references.md 5.2, 2 % as in the capture tests
-    expect(p.loadCap).toBe(before.characterization.find((c) => c.rl === 4700)!.loadCap)
-    expect(applied.changes[0]).toBe('characterisation point at RL 4700 ohm replaced')
+    expect(p.loadCap).toBe(before.loadCap)
+    expect(p.ledCurrent).toBeCloseTo(ledCurrentOf(before), 15)
+    expect(applied.changes[0]).toBe('characterisation point added at RL 4700 ohm')
     expect(LinkSpec.safeParse(applied.spec).success).toBe(true)
     // the input is not modified
     expect(spec.channels[0]!.stages[0]).toEqual(before)
+    // a second capture at the same RL and conditions replaces that point
+    const again = applyCaptureToStage(applied.spec, { channel: 0, stage: 0 }, r, 'characterization', { rl: 4700 })
+    const twice = again.spec.channels[0]!.stages[0]!
+    if (twice.kind !== 'phototransistor') throw new Error('kind changed')
+    expect(twice.characterization).toHaveLength(after.characterization.length)
+    expect(again.changes[0]).toBe('characterisation point at RL 4700 ohm and these conditions replaced')
     // a new RL adds a point, kept in RL order
     const added = applyCaptureToStage(spec, { channel: 0, stage: 0 }, r, 'characterization', { rl: 2200 }).spec.channels[0]!.stages[0]!
     if (added.kind !== 'phototransistor') throw new Error('kind changed')
