@@ -14,6 +14,16 @@ function clone<T>(v: T): T {
 }
 
 /**
+ * JSON with object keys sorted: the stored spec comes back from PostgreSQL's jsonb with its
+ * keys reordered, so equality of specs must not depend on key order.
+ */
+function canonical(v: unknown): string {
+  return JSON.stringify(v, (_k, x) =>
+    x && typeof x === 'object' && !Array.isArray(x) ? Object.fromEntries(Object.keys(x).sort().map((k) => [k, (x as Record<string, unknown>)[k]])) : x,
+  )
+}
+
+/**
  * The link being edited: the saved version from the server, the draft with unsaved
  * edits, the schema's issues as the user types, the latest analysis of the draft and
  * the state of an explicit save (with the 409 of a concurrent edit).
@@ -45,7 +55,7 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
     return out
   })
   const valid = computed(() => !!validation.value?.success)
-  const dirty = computed(() => !!draft.value && !!saved.value && JSON.stringify(draft.value) !== JSON.stringify(saved.value.spec))
+  const dirty = computed(() => !!draft.value && !!saved.value && canonical(draft.value) !== canonical(saved.value.spec))
 
   function load(link: LinkView) {
     linkId.value = String(link.id)
@@ -70,10 +80,10 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
         method: 'PATCH',
         body: { version: saved.value.version, spec: draft.value },
       })
-      const mine = JSON.stringify(draft.value)
+      const mine = canonical(draft.value)
       saved.value = clone(res)
       // keep edits made while the request was in flight
-      if (JSON.stringify(res.spec) === mine) draft.value = clone(res.spec)
+      if (canonical(res.spec) === mine) draft.value = clone(res.spec)
       conflict.value = null
       savedAt.value = new Date().toISOString()
       return true

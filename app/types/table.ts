@@ -12,4 +12,6 @@ export interface TableColumn<R> {
   csvLabel?: string
   /** extra classes for the cell */
   cellClass?: (row: R) => string | undefined
+  /** shown in the row's expandable details instead of as a column (still exported to CSV) */
+  detail?: boolean
 }

@@ -109,6 +109,8 @@ export interface PullupSweepGeometry {
   recommendedX: number | null
   /** x pixel of each row, for markers of infeasible rows */
   rowX: number[]
+  /** the characterised points on the time axes (tPLH and tr markers) */
+  points: { px: number; tplhY: number | null; trY: number | null; rl: number }[]
 }
 
 /**
@@ -121,6 +123,7 @@ export function pullupSweepGeometry(
   rows: { rl: number; tplh: number; tr: number; ledCurrent: number | null; marginUi: number | null }[],
   requiredUi: number,
   recommended: number | null,
+  points: { rl: number; tplh?: number; tr?: number }[] = [],
 ): PullupSweepGeometry {
   const full = plotArea(f)
   const gap = 24
@@ -128,9 +131,10 @@ export function pullupSweepGeometry(
   const marginArea: PlotArea = { ...full, y1: full.y0 - marginHeight }
   const rls = rows.map((r) => r.rl)
   const xd: [number, number] = rls.length ? [Math.min(...rls), Math.max(...rls)] : [100, 10000]
+  const inX = points.filter((p) => p.rl >= xd[0] && p.rl <= xd[1])
   if (xd[0] === xd[1]) xd[1] = xd[0] * 10
   const sx = scaleLog().domain(xd).range([area.x0, area.x1])
-  const td: [number, number] = [0, extent(rows.flatMap((r) => [r.tplh, r.tr]), 0.08)[1]]
+  const td: [number, number] = [0, extent([...rows.flatMap((r) => [r.tplh, r.tr]), ...inX.flatMap((p) => [p.tplh ?? 0, p.tr ?? 0])], 0.08)[1]]
   const st = scaleLinear().domain(td).range([area.y0, area.y1]).nice()
   const cd: [number, number] = [0, extent(rows.map((r) => r.ledCurrent), 0.08)[1]]
   const sc = scaleLinear().domain(cd).range([area.y0, area.y1]).nice()
@@ -152,6 +156,7 @@ export function pullupSweepGeometry(
     zeroY: sm(0),
     recommendedX: recommended !== null && rows[recommended] ? sx(rows[recommended]!.rl) : null,
     rowX: rows.map((r) => sx(r.rl)),
+    points: inX.map((p) => ({ rl: p.rl, px: sx(p.rl), tplhY: p.tplh !== undefined ? st(p.tplh) : null, trY: p.tr !== undefined ? st(p.tr) : null })),
   }
 }
 
