@@ -48,10 +48,16 @@ export function ngspiceVersion(): string | null {
   return (line ?? 'ngspice').trim()
 }
 
-/** The netlist of one case: the LED on for 120 us (the output settles), then off for 300 us. */
+/**
+ * The netlist of one case: the LED on long enough for the output to settle, then off long
+ * enough for the slowest rise (both at least ten times the output's time constant, RL times
+ * the Miller capacitance of the class, about 1.3 nF, plus the load).
+ */
 export function couplerNetlist(k: CouplerCase, text = template()): string {
   const ton = 10e-6
-  const onFor = 120e-6
+  const tau = k.rl * (1.3e-9 + k.loadCap)
+  const onFor = Math.max(120e-6, 10 * tau)
+  const offFor = Math.max(300e-6, 12 * tau + 100e-6)
   const toff = ton + onFor
   const fill: Record<string, string> = {
     IF: String(k.ledCurrent),
@@ -59,7 +65,7 @@ export function couplerNetlist(k: CouplerCase, text = template()): string {
     TONW: String(onFor),
     TOFF: String(toff),
     TLOWFROM: String(toff - 10e-6),
-    TSTOP: String(toff + 300e-6),
+    TSTOP: String(toff + offFor),
     VCC: String(k.vcc ?? 5),
     RL: String(k.rl),
     CL: String(k.loadCap > 0 ? k.loadCap : 1e-18),
