@@ -17,6 +17,10 @@ export const PERMISSIONS = {
   'invitation.manage': ['admin'],
   /** read the team's audit log */
   'audit.read': ['admin'],
+  /** read the team's engineering policy (required margins, thin thresholds) */
+  'policy.read': ['admin', 'engineer', 'reviewer', 'viewer'],
+  /** change it */
+  'policy.update': ['admin'],
 
   'project.read': ['admin', 'engineer', 'reviewer', 'viewer'],
   'project.create': ['admin', 'engineer'],

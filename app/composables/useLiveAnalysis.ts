@@ -1,9 +1,10 @@
 import type { LinkAnalysis } from '~~/server/timing/analyze'
 
 /**
- * Live analysis of the draft link: every valid edit is sent to POST /api/analyze after a
- * short pause; the previous result stays on screen (dimmed) until the new one arrives,
- * and only the answer to the latest request is kept.
+ * Live analysis of the draft link: every complete, valid edit is sent to POST /api/analyze
+ * after a short pause; the previous result stays on screen (dimmed) until the new one
+ * arrives, and only the answer to the latest request is kept. A draft with values missing or
+ * fields to fix is not analysed, and its old result is dropped (never a stale verdict).
  */
 export function useLiveAnalysis(delayMs = 350) {
   const store = useDraftLinkStore()
@@ -11,12 +12,12 @@ export function useLiveAnalysis(delayMs = 350) {
   let seq = 0
 
   async function run() {
-    const v = store.validation
-    if (!v?.success || !store.draft) return
+    const link = store.check?.link
+    if (!store.valid || !link) return
     const mine = ++seq
     store.analysing = true
     try {
-      const result = await $fetch<LinkAnalysis>('/api/analyze', { method: 'POST', body: store.draft })
+      const result = await $fetch<LinkAnalysis>('/api/analyze', { method: 'POST', body: link })
       if (mine !== seq) return
       store.setAnalysis(result)
       store.analysisError = null
@@ -34,6 +35,8 @@ export function useLiveAnalysis(delayMs = 350) {
     if (timer) clearTimeout(timer)
     if (!store.valid) {
       store.analysing = false
+      seq++ // an answer still in flight belongs to an older draft
+      store.setAnalysis(null)
       return
     }
     store.analysing = true
@@ -41,7 +44,7 @@ export function useLiveAnalysis(delayMs = 350) {
   }
 
   if (import.meta.client) {
-    watch(() => JSON.stringify(store.draft), () => schedule(), { flush: 'post' })
+    watch(() => [JSON.stringify(store.draft), store.valid], () => schedule(), { flush: 'post' })
     onBeforeUnmount(() => {
       if (timer) clearTimeout(timer)
       seq++

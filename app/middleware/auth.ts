@@ -14,4 +14,6 @@ export default defineNuxtRouteMiddleware(async (to) => {
   }
   const teamId = to.params.teamId
   if (typeof teamId === 'string') team.selectTeam(teamId)
+  // the current team's policy (required margins, thin thresholds): the screens colour by it
+  await team.loadPolicy().catch(() => undefined)
 })

@@ -1,5 +1,6 @@
 import { defineStore } from 'pinia'
-import { LinkSpec, type LinkInput } from '#shared/schemas/link'
+import type { LinkInput } from '#shared/schemas/link'
+import { checkLinkDraft } from '#shared/schemas/linkDraft'
 import type { LinkAnalysis } from '~~/server/timing/analyze'
 import type { LinkView } from '~/types/api'
 
@@ -45,16 +46,34 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
   const conflict = ref<SaveConflict | null>(null)
   const savedAt = ref<string | null>(null)
 
-  const validation = computed(() => (draft.value ? LinkSpec.safeParse(draft.value) : null))
-  /** schema issues of the draft, keyed by dotted path (first message per path) */
+  /** the draft against the shared schema: complete, or values still missing, or real problems */
+  const check = computed(() => (draft.value ? checkLinkDraft(draft.value) : null))
+  /** text typed into fields that could not be read yet, by dotted path (the fields report it) */
+  const typing = ref<Record<string, string>>({})
+  /** schema issues of the draft and fields not read yet, keyed by dotted path (first message per path) */
   const issues = computed<Record<string, string>>(() => {
-    const out: Record<string, string> = {}
-    const v = validation.value
-    if (v && !v.success) for (const i of v.error.issues) out[i.path.map(String).join('.')] ??= i.message
+    const out: Record<string, string> = { ...typing.value }
+    const c = check.value
+    if (c) {
+      for (const i of c.issues) out[i.path.map(String).join('.')] ??= i.message
+      for (const m of c.missing) out[m.map(String).join('.')] ??= 'enter a value'
+    }
     for (const [k, m] of Object.entries(serverIssues.value)) out[k] ??= m
     return out
   })
-  const valid = computed(() => !!validation.value?.success)
+  /** values still to enter (a new link's blank stages) */
+  const missingCount = computed(() => check.value?.missing.length ?? 0)
+  /** fields to fix: real schema problems and text not read, by distinct field */
+  const fixCount = computed(() => {
+    const c = check.value
+    const paths = new Set(Object.keys(typing.value))
+    for (const i of c?.issues ?? []) paths.add(i.path.map(String).join('.'))
+    return paths.size
+  })
+  /** complete and without problems: the engine can analyse it */
+  const valid = computed(() => !!check.value?.link && Object.keys(typing.value).length === 0)
+  /** may be saved: no real problem (values may still be missing) */
+  const savable = computed(() => !!check.value && fixCount.value === 0)
   const dirty = computed(() => !!draft.value && !!saved.value && canonical(draft.value) !== canonical(saved.value.spec))
 
   function load(link: LinkView) {
@@ -64,6 +83,7 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
     conflict.value = null
     saveError.value = null
     serverIssues.value = {}
+    typing.value = {}
   }
 
   /** Drop unsaved edits. */
@@ -129,10 +149,11 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
     conflict.value = null
     saveError.value = null
     serverIssues.value = {}
+    typing.value = {}
   }
 
   return {
     linkId, saved, draft, analysis, analysing, analysisError, serverIssues, saving, saveError, conflict, savedAt,
-    validation, issues, valid, dirty, load, revert, save, takeTheirs, keepMine, setAnalysis, reset,
+    check, typing, issues, missingCount, fixCount, valid, savable, dirty, load, revert, save, takeTheirs, keepMine, setAnalysis, reset,
   }
 })

@@ -1,5 +1,6 @@
 import { defineStore } from 'pinia'
 import type { Role } from '#shared/schemas/roles'
+import { DEFAULT_TEAM_POLICY, type TeamPolicy } from '#shared/schemas/team'
 
 import type { AuthDto } from '#shared/types/account'
 
@@ -25,6 +26,9 @@ export const useTeamStore = defineStore('team', () => {
   const currentTeamId = ref<string | null>(null)
   const currentTeamKey = computed(() => currentTeamId.value)
   const place = ref<NavPlace>({})
+  /** the current team's engineering policy (required margins, thin thresholds), loaded per team */
+  const policies = ref<Record<string, { version: number; policy: TeamPolicy }>>({})
+  const policy = computed<TeamPolicy>(() => (currentTeamKey.value ? policies.value[currentTeamKey.value]?.policy : null) ?? DEFAULT_TEAM_POLICY)
 
   const teams = computed(() => me.value?.teams ?? [])
   const currentTeam = computed(() => teams.value.find((t) => String(t.id) === currentTeamKey.value) ?? teams.value[0] ?? null)
@@ -47,6 +51,14 @@ export const useTeamStore = defineStore('team', () => {
     return me.value
   }
 
+  /** Load (or reload) a team's policy; the current team's by default. */
+  async function loadPolicy(teamId = currentTeamKey.value, force = false) {
+    if (!teamId || (policies.value[teamId] && !force)) return
+    const fetcher = useRequestFetch() as unknown as (url: string) => Promise<{ version: number; policy: TeamPolicy }>
+    const p = await fetcher(`/api/teams/${teamId}/policy`)
+    policies.value = { ...policies.value, [teamId]: { version: p.version, policy: p.policy } }
+  }
+
   function selectTeam(teamId: string | null | undefined) {
     if (teamId) currentTeamId.value = teamId
   }
@@ -59,7 +71,8 @@ export const useTeamStore = defineStore('team', () => {
     me.value = null
     currentTeamId.value = null
     place.value = {}
+    policies.value = {}
   }
 
-  return { me, teams, currentTeamId, currentTeam, role, canEdit, isAdmin, place, roleAtLeast, load, selectTeam, setPlace, reset }
+  return { me, teams, currentTeamId, currentTeam, role, canEdit, isAdmin, place, policies, policy, roleAtLeast, load, loadPolicy, selectTeam, setPlace, reset }
 })

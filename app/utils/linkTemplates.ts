@@ -1,85 +1,91 @@
 /**
- * Starting points for a new link: valid inputs the user edits, never results. The stage
- * is a generic digital isolator channel; replace it from the part library.
+ * Starting points for a new link (issue 17): never invented numbers. Each stage is either a
+ * part from the library (its class or datasheet values, named, with their source) or a
+ * blank stage whose values are still to be entered (null: the link reads "incomplete" until
+ * they are). The required margin and slack come from the team's policy; the clocks' errors
+ * and the peripheral's timing are left for the user to enter.
  */
 import type { ChannelSpec, LinkInput, StageSpec } from '#shared/schemas/link'
+import type { TeamPolicy } from '#shared/schemas/team'
 import { RECEIVER_PRESETS } from '#shared/utils/receiver-presets'
 
 type StageInput = LinkInput['channels'][number]['stages'][number]
 
+/** A value still to be entered (the draft schema counts it as missing, never as a number). */
+const missing = null as unknown as number
+const blankCorners = () => ({ min: missing, typ: missing, max: missing })
+
+/** A stage of `kind` with its datasheet values left to enter. */
 export function blankStage(kind: StageSpec['kind']): StageInput {
   switch (kind) {
     case 'digital':
-      return {
-        kind,
-        name: 'Digital stage',
-        inverting: false,
-        tplh: { min: 10e-9, typ: 20e-9, max: 30e-9 },
-        tphl: { min: 10e-9, typ: 20e-9, max: 30e-9 },
-        tr: { typ: 2e-9, max: 4e-9 },
-        tf: { typ: 2e-9, max: 4e-9 },
-        edge: 'ramp',
-      }
+      return { kind, name: 'Digital stage', inverting: false, tplh: blankCorners(), tphl: blankCorners(), edge: 'ramp' }
     case 'wire':
-      return { kind, name: 'Cable', length: 1, delayPerMeter: 5e-9 }
+      return { kind, name: 'Cable', length: missing, delayPerMeter: 5e-9 }
     case 'rc':
-      return { kind, name: 'Open-drain pull-up', r: 4700, c: 20e-12, passive: 'rise' }
+      return { kind, name: 'Open-drain pull-up', r: missing, c: missing, passive: 'rise' }
     case 'phototransistor':
       return {
         kind,
         name: 'Phototransistor coupler',
         wiring: 'collector',
         ledOnWhen: 'high',
-        driveVoltage: 3.3,
-        vf: 1.2,
-        rLed: 430,
-        ctrMin: 0.5,
-        ctrTestCurrent: 5e-3,
-        ctrDerating: { temperature: 1, endOfLife: 1 },
-        vcc: 3.3,
-        rl: 2200,
-        vceSat: 0.4,
-        loadCap: 15e-12,
-        characterization: [{ rl: 1000, tplh: 5e-6, tphl: 2e-6, tr: 4e-6, tf: 1.5e-6 }],
+        driveVoltage: missing,
+        vf: missing,
+        rLed: missing,
+        ctrMin: missing,
+        vcc: missing,
+        rl: missing,
+        characterization: [{ rl: missing, tplh: missing, tphl: missing, tr: missing, tf: missing }],
       }
   }
 }
 
-function channel(id: string, role: ChannelSpec['role'], label: string): LinkInput['channels'][number] {
-  const { family, vdd, vih, vil, schmitt } = RECEIVER_PRESETS[0]
-  return { id, role, label, stages: [blankStage('digital')], receiver: { family, vdd, vih, vil, schmitt, invert: false } }
+/** Where a new link's stages come from: a part's stage (copied, with its part id), or blank stages. */
+export type StageSource = { part: { id: string | number; stage: StageInput } } | 'blank'
+
+function stageFrom(source: StageSource): StageInput {
+  if (source === 'blank') return blankStage('digital')
+  return { ...JSON.parse(JSON.stringify(source.part.stage)), partId: String(source.part.id) }
 }
 
-export function newLinkSpec(name: string, protocol: 'uart' | 'spi'): LinkInput {
+function channel(id: string, role: ChannelSpec['role'], label: string, source: StageSource): LinkInput['channels'][number] {
+  const { family, vdd, vih, vil, schmitt, maxInputTransition } = RECEIVER_PRESETS[0]
+  return { id, role, label, stages: [stageFrom(source)], receiver: { family, vdd, vih, vil, schmitt, maxInputTransition, invert: false } }
+}
+
+/** A new link of `protocol` whose stages come from `source`, its requirement from the team's `policy`. */
+export function newLinkSpec(name: string, protocol: 'uart' | 'spi', policy: TeamPolicy, source: StageSource): LinkInput {
   if (protocol === 'uart')
     return {
       schemaVersion: 1,
       name,
       protocol,
-      channels: [channel('tx', 'uart', 'TX -> RX')],
+      channels: [channel('tx', 'uart', 'TX -> RX', source)],
       uart: {
         baud: 115200,
         dataBits: 8,
         parity: 'none',
         stopBits: 1,
         backToBack: true,
-        requiredMarginUi: 0.1,
-        tx: { errorPpm: 10000 },
-        rx: { errorPpm: 10000, sampler: 'ticks', oversampling: 16, sampleTicks: [7, 8, 9], vote: 'majority' },
+        requiredMarginUi: policy.requiredMarginUi,
+        tx: { errorPpm: missing },
+        rx: { errorPpm: missing, sampler: 'ticks', oversampling: 16, sampleTicks: [7, 8, 9], vote: 'majority' },
       },
     }
   return {
     schemaVersion: 1,
     name,
     protocol,
-    channels: [channel('sclk', 'sclk', 'SCLK'), channel('mosi', 'mosi', 'MOSI'), channel('miso', 'miso', 'MISO'), channel('cs', 'cs', 'CS')],
+    channels: [channel('sclk', 'sclk', 'SCLK', source), channel('mosi', 'mosi', 'MOSI', source), channel('miso', 'miso', 'MISO', source), channel('cs', 'cs', 'CS', source)],
     spi: {
       sclkHz: 1e6,
       cpol: 0,
       cpha: 0,
       requiredSlack: 0,
-      controller: { misoSetup: 5e-9, misoHold: 2e-9 },
-      peripheral: { mosiSetup: 5e-9, mosiHold: 5e-9, clockToOut: { min: 2e-9, max: 20e-9 } },
+      requiredSlackFraction: policy.requiredSlackFraction,
+      controller: { misoSetup: missing, misoHold: missing },
+      peripheral: { mosiSetup: missing, mosiHold: missing, clockToOut: { min: missing, max: missing } },
       packages: [],
     },
   }

@@ -4,17 +4,21 @@
  */
 export type MarginState = 'healthy' | 'thin' | 'broken' | 'unknown'
 
-export function marginState(value: number | null | undefined, required = 0): MarginState {
+/**
+ * @param required what the value must reach (below it: thin, below zero: broken)
+ * @param thinBelow the team's thin threshold, when above the requirement (a guard band)
+ */
+export function marginState(value: number | null | undefined, required = 0, thinBelow = required): MarginState {
   if (value === null || value === undefined || !Number.isFinite(value)) return 'unknown'
   if (value < 0) return 'broken'
-  if (value < required) return 'thin'
+  if (value < Math.max(required, thinBelow)) return 'thin'
   return 'healthy'
 }
 
 export const MARGIN_LABEL: Record<MarginState, string> = { healthy: 'healthy', thin: 'thin', broken: 'broken', unknown: 'no data' }
 
-export const VERDICT_STATE: Record<string, MarginState> = { pass: 'healthy', marginal: 'thin', fail: 'broken' }
-export const VERDICT_LABEL: Record<string, string> = { pass: 'pass', marginal: 'marginal', fail: 'fail' }
+export const VERDICT_STATE: Record<string, MarginState> = { pass: 'healthy', marginal: 'thin', fail: 'broken', incomplete: 'unknown' }
+export const VERDICT_LABEL: Record<string, string> = { pass: 'pass', marginal: 'marginal', fail: 'fail', incomplete: 'incomplete' }
 
 /** Tailwind classes of a state's tag (background + text). */
 export function stateTagClass(state: MarginState): string {

@@ -4,18 +4,32 @@
  * current link, never a silent overwrite).
  */
 import type { Link as LinkSpec } from '../../shared/schemas/link'
+import { checkLinkDraft } from '../../shared/schemas/linkDraft'
+import type { LinkSummaryFields } from '../../shared/types/workspace'
 import type { Role } from '../../shared/schemas/roles'
 import { Link, User, type Project } from '../db/models'
 import { useDb } from '../utils/db'
 import { ConflictError } from '../utils/errors'
 import { presentLink } from '../presenters/workspace'
-import { analyzeAndSummarize } from './analysis'
+import { analyzeAndSummarize, incompleteSummary } from './analysis'
 import { audit } from './audit'
 
 const withUpdater = { model: User, as: 'updater', attributes: ['id', 'name'] }
 
-export async function createLink(project: Project, userId: number, spec: LinkSpec) {
-  const summary = analyzeAndSummarize(spec)
+/**
+ * What a save stores: the parsed link and its analysis summary, or, for a draft with values
+ * still to enter, the draft as sent and an "incomplete" summary (validated by LinkDraftSpec:
+ * its only problems are missing values).
+ */
+function stored(input: unknown): { spec: LinkSpec; summary: LinkSummaryFields } {
+  const check = checkLinkDraft(input)
+  if (check.link) return { spec: check.link, summary: analyzeAndSummarize(check.link) }
+  // a draft keeps its nulls (values to enter); its identity fields are validated like a link's
+  return { spec: input as LinkSpec, summary: incompleteSummary(check.missing.length) }
+}
+
+export async function createLink(project: Project, userId: number, input: unknown) {
+  const { spec, summary } = stored(input)
   return useDb().transaction(async (transaction) => {
     const link = await Link.create(
       { projectId: project.id, teamId: project.teamId, name: spec.name, protocol: spec.protocol, spec, summary, createdBy: userId, updatedBy: userId },
@@ -27,8 +41,8 @@ export async function createLink(project: Project, userId: number, spec: LinkSpe
   })
 }
 
-export async function updateLink(link: Link, role: Role, userId: number, version: number, spec: LinkSpec) {
-  const summary = analyzeAndSummarize(spec)
+export async function updateLink(link: Link, role: Role, userId: number, version: number, input: unknown) {
+  const { spec, summary } = stored(input)
   return useDb().transaction(async (transaction) => {
     const [n] = await Link.update(
       { spec, summary, name: spec.name, protocol: spec.protocol, version: version + 1, updatedBy: userId },

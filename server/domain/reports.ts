@@ -17,6 +17,7 @@ import { useDb } from '../utils/db'
 import { ConflictError, ForbiddenError, InvalidError } from '../utils/errors'
 import { sendMail } from '../utils/mail'
 import { appUrl } from '../utils/settings'
+import { requireCompleteSpec } from './analysis'
 import { audit } from './audit'
 
 const people = [
@@ -66,7 +67,7 @@ export async function freezeRevision(link: Link, userId: number, body: FreezeBod
     const locked = await Link.findByPk(link.id, { transaction, lock: transaction.LOCK.UPDATE, rejectOnEmpty: true })
     if (body.linkVersion !== undefined && body.linkVersion !== locked.version)
       throw new ConflictError('the link was saved by someone else since you opened it; reload it before freezing a revision', { currentVersion: locked.version })
-    const frozen = freezeAnalysis(locked.spec, body.pullup)
+    const frozen = freezeAnalysis(requireCompleteSpec(locked.spec, 'frozen into a revision'), body.pullup)
     const project = await Project.findByPk(locked.projectId, { transaction, rejectOnEmpty: true })
     const number = (await latestNumber(locked.id, transaction)) + 1
     // the captures that back this revision: a snapshot, so a later deletion leaves the report as it was

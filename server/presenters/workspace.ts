@@ -23,6 +23,7 @@ export function presentLinkSummary(l: Link): LinkSummaryDto {
     protocol: l.protocol,
     version: l.version,
     verdict: l.summary?.verdict ?? null,
+    ...(l.summary?.missingValues !== undefined ? { missingValues: l.summary.missingValues } : {}),
     worstMarginUi: l.summary?.worstMarginUi ?? null,
     worstSlack: l.summary?.worstSlack ?? null,
     maxBaud: l.summary?.maxBaud ?? null,
@@ -46,6 +47,7 @@ export function presentLink(l: Link, role: Role): LinkDto {
     spec: l.spec,
     summary: {
       verdict: l.summary?.verdict ?? null,
+      ...(l.summary?.missingValues !== undefined ? { missingValues: l.summary.missingValues } : {}),
       worstMarginUi: l.summary?.worstMarginUi ?? null,
       worstSlack: l.summary?.worstSlack ?? null,
       maxBaud: l.summary?.maxBaud ?? null,

@@ -170,6 +170,7 @@ export function analyzeSpi(link: Link, chains: ChainResult[], notFunctional: (st
     'SPI: the controller launches MOSI and samples MISO exactly on its own SCLK edges (no controller output delay), SCLK at 50 % duty.',
     'SPI: chip select is active low; lead runs from CS asserted to the first SCLK edge, lag from the last (trailing) SCLK edge to CS released.',
     'SPI: worst-case slacks subtract each edge\'s peak jitter; random (rms) jitter is not in them.',
+    ...(spi.requiredSlackFraction ? [`SPI: each check that scales with the clock keeps at least ${Math.round(spi.requiredSlackFraction * 100)} % of the half period as slack (and every check at least the fixed required slack).`] : []),
     "SPI: channels in one isolator package differ by at most its channelSkew around their typical difference (plus the channel's own PWD for opposite edges); channels in different parts by the larger partSkew when both state one; otherwise their delay corners are independent.",
   ]
 
@@ -308,12 +309,16 @@ export function analyzeSpi(link: Link, chains: ChainResult[], notFunctional: (st
   }
 
   const required = spi.requiredSlack ?? 0
+  const fraction = spi.requiredSlackFraction ?? 0
+  /** what a check must keep at half period H: the fixed slack, and for checks that scale with the clock a fraction of H */
+  const requiredAt = (k: number, H: number) => Math.max(required, k > 0 ? fraction * H : 0)
   const evaluate = (sclkHz: number) => {
     const H = 1 / (2 * sclkHz)
     return ids.map((id): SpiCheck => {
       const { k, c, description } = lin[id]
       const slack = k * H + c
-      return { id, slack, slackFraction: slack / H, required, pass: slack >= required, slope: k, offset: c, description }
+      const need = requiredAt(k, H)
+      return { id, slack, slackFraction: slack / H, required: need, pass: slack >= need, slope: k, offset: c, description }
     })
   }
   const worstOf = (checks: SpiCheck[]) =>
@@ -329,7 +334,8 @@ export function analyzeSpi(link: Link, chains: ChainResult[], notFunctional: (st
       if (c < required && impossible === null) impossible = id
       continue
     }
-    const h = (required - c) / k
+    // k H + c >= requiredSlack and k H + c >= fraction H (fraction < 1 <= k)
+    const h = Math.max((required - c) / k, fraction > 0 ? -c / (k - fraction) : -Infinity)
     if (h > hMin) {
       hMin = h
       limitingCheck = id

@@ -1,10 +1,12 @@
 /** Bodies of the compute routes and of link saves. The link itself is LinkSpec (link.ts). */
 import { z } from 'zod'
 import { LinkSpec } from './link'
+import { LinkDraftSpec } from './linkDraft'
 import { Version } from './project'
 
-export const LinkCreateBody = z.object({ spec: LinkSpec })
-export const LinkPatchBody = z.object({ version: Version, spec: LinkSpec })
+/** A saved link may still have values to enter (a draft): see linkDraft.ts. */
+export const LinkCreateBody = z.object({ spec: LinkDraftSpec })
+export const LinkPatchBody = z.object({ version: Version, spec: LinkDraftSpec })
 
 /** Most trials a spread study may run in one request. */
 export const SPREAD_TRIALS_MAX = 100_000

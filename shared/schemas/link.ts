@@ -483,6 +483,11 @@ export const SpiSettings = z.preprocess(
     cpha: z.union([z.literal(0), z.literal(1)]),
     /** slack every check must keep, seconds */
     requiredSlack: Seconds.default(0),
+    /**
+     * slack the checks that scale with the clock must keep, as a fraction of the half period
+     * (a team's policy, e.g. 0.1); each such check needs the larger of this and requiredSlack
+     */
+    requiredSlackFraction: num(0, 0.9, 'required slack fraction').optional(),
     controller: SpiController,
     peripheral: SpiPeripheral,
     packages: z.array(IsolatorPackage).max(16).default([]),

@@ -7,7 +7,10 @@ export type Verdict = 'pass' | 'marginal' | 'fail'
 
 /** The analysis of a link condensed at save time (stored on the link row). */
 export interface LinkSummaryFields {
-  verdict: Verdict | null
+  /** the engine's verdict; 'incomplete' while values are still to be entered (not analysed) */
+  verdict: Verdict | 'incomplete' | null
+  /** values still to be entered (incomplete links) */
+  missingValues?: number
   /** worst margin of the frame, unit intervals (UART); null when unbounded or SPI */
   worstMarginUi: number | null
   /** worst SPI slack, seconds; null for UART */
@@ -56,6 +59,7 @@ export interface LinkDto {
   teamId: number
   name: string
   version: number
+  /** the link, or a draft of it with values still to enter (null), when summary.verdict is 'incomplete' */
   spec: Link
   summary: LinkSummaryFields
   createdAt: string

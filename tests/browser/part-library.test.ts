@@ -77,8 +77,14 @@ describe('the part library', () => {
     await tplhTyp.fill('-5 ns')
     await expect(form.getByRole('alert').first().textContent()).resolves.toBeTruthy()
     await expect(form.getByRole('button', { name: 'Create part' }).isDisabled()).resolves.toBe(true)
+    // a new part starts blank (issue 17: no invented numbers): every delay corner is entered
+    await expect(form.getByRole('button', { name: 'Create part' }).isDisabled()).resolves.toBe(true)
+    await form.getByLabel('tPLH min').fill('20 ns')
     await tplhTyp.fill('45 ns')
     await form.getByLabel('tPLH max').fill('80 ns')
+    await form.getByLabel('tPHL min').fill('20 ns')
+    await form.getByLabel('tPHL typ').fill('40 ns')
+    await form.getByLabel('tPHL max').fill('80 ns')
     await screenshot(page, 'part-library-create')
 
     const created = page.waitForResponse((r) => r.url().endsWith(`/api/teams/${world.teamId}/parts`) && r.request().method() === 'POST')

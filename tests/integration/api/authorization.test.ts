@@ -69,6 +69,16 @@ const rows: Row[] = [
   { method: 'POST', route: '/api/teams/[teamId]/invitations', request: async () => ({ path: `/api/teams/${w.teamId}/invitations`, body: { email: uniqueEmail('invitee'), role: 'viewer' } }), expected: [401, 403, 403, 403, 201, 404] },
   { method: 'DELETE', route: '/api/teams/[teamId]/invitations/[invitationId]', request: async () => ({ path: `/api/teams/${w.teamId}/invitations/${(await freshInvitation()).id}` }), expected: ADMIN_DELETE },
   { method: 'GET', route: '/api/teams/[teamId]/audit', request: async () => ({ path: `/api/teams/${w.teamId}/audit` }), expected: ADMIN_ONLY },
+  { method: 'GET', route: '/api/teams/[teamId]/policy', request: async () => ({ path: `/api/teams/${w.teamId}/policy` }), expected: READ },
+  {
+    method: 'PATCH',
+    route: '/api/teams/[teamId]/policy',
+    request: async () => {
+      const current = (await admin().get(`/api/teams/${w.teamId}/policy`)).data
+      return { path: `/api/teams/${w.teamId}/policy`, body: { version: current.version, policy: current.policy } }
+    },
+    expected: ADMIN_ONLY,
+  },
 
   // projects
   { method: 'GET', route: '/api/teams/[teamId]/projects', request: async () => ({ path: `/api/teams/${w.teamId}/projects` }), expected: READ },

@@ -1,9 +1,10 @@
+import { requireCompleteSpec } from '../../../domain/analysis'
 import { analyzeLink } from '../../../timing'
 
-/** The saved link's full analysis, computed now by the current engine (any member). */
+/** The saved link's full analysis, computed now by the current engine (any member); 409 while values are missing. */
 export default defineApiHandler(async (event) => {
   await requireUser(event)
   const { linkId } = await validParams(event, idParams('linkId'))
   const { link } = await requireLink(event, linkId, 'link.read')
-  return analyzeLink(link.spec)
+  return analyzeLink(requireCompleteSpec(link.spec, 'analysed'))
 })
