@@ -1,4 +1,4 @@
-import type { LinkAnalysis } from '~~/server/timing/analyze'
+import type { LinkAnalysis } from '#shared/types/analysis'
 
 /**
  * Live analysis of the draft link: every complete, valid edit is sent to POST /api/analyze

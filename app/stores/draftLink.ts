@@ -1,7 +1,7 @@
 import { defineStore } from 'pinia'
 import type { LinkInput } from '#shared/schemas/link'
 import { checkLinkDraft } from '#shared/schemas/linkDraft'
-import type { LinkAnalysis } from '~~/server/timing/analyze'
+import type { LinkAnalysis } from '#shared/types/analysis'
 import type { LinkView } from '~/types/api'
 
 /** The server's answer to a stale save (409): the version now stored and the link as stored. */

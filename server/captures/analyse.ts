@@ -5,6 +5,8 @@ import { pairEdges, type EdgePair, type Pairing } from './pairing'
 import { parseCapture, type CaptureFormat, type ParseOptions, type ParsedCapture } from './parse'
 import { RunningStats, type SummaryStats } from './stats'
 import { findEdges, type Edge } from './transitions'
+import type { CaptureChannelResult as ChannelResult, PairingResult, CaptureResult } from '../../shared/types/capture'
+export type { ChannelResult, PairingResult, CaptureResult }
 
 /** Version of the extraction method, stored with every result so a result can be traced. */
 export const CAPTURE_METHOD_VERSION = 'captures-1'
@@ -24,49 +26,8 @@ export interface AnalyseOptions {
   maxListed?: number
 }
 
-export interface ChannelResult {
-  name: string
-  unit: string | null
-  /** null for a flat channel */
-  levels: StateLevels | null
-  /** volts: hysteresis thresholds, null for a flat channel */
-  thresholds: { lower: number; upper: number } | null
-  edgeCount: number
-  risingCount: number
-  fallingCount: number
-  /** the first maxListed edges */
-  edges: Edge[]
-  edgesTruncated: boolean
-  /** seconds: 10-90 % transition durations of the rising edges */
-  tr: SummaryStats | null
-  /** seconds: 90-10 % transition durations of the falling edges */
-  tf: SummaryStats | null
-}
 
-export interface PairingResult extends Omit<Pairing, 'pairs'> {
-  /** channel indices (among the voltage columns) */
-  input: number
-  output: number
-  /** the first maxListed pairs */
-  pairs: EdgePair[]
-  pairsTruncated: boolean
-  pairCount: number
-}
 
-/** What a capture measured: JSON-safe, no NaN or infinity. */
-export interface CaptureResult {
-  method: typeof CAPTURE_METHOD_VERSION
-  format: CaptureFormat
-  sampleCount: number
-  /** seconds */
-  timeStart: number
-  timeEnd: number
-  /** seconds: mean sample interval */
-  sampleInterval: number
-  channels: ChannelResult[]
-  pairing: PairingResult | null
-  warnings: string[]
-}
 
 function channelIndex(value: number, count: number, what: string): number {
   if (!Number.isInteger(value) || value < 0 || value >= count) {

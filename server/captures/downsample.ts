@@ -1,11 +1,6 @@
-/** A capture reduced for display: per bucket of consecutive samples, the min and max. */
-export interface CaptureWaveform {
-  /** samples per bucket (a power of two; the last bucket may hold fewer) */
-  samplesPerBucket: number
-  /** seconds: the time of each bucket's first sample */
-  t: number[]
-  channels: { name: string; /** volts */ min: number[]; /** volts */ max: number[] }[]
-}
+import type { CaptureWaveform } from '../../shared/types/capture'
+export type { CaptureWaveform }
+
 
 /**
  * Min/max decimation computed while the file streams by, without knowing the sample

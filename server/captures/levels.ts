@@ -1,23 +1,6 @@
-/** The two state levels of a two-level waveform and its reference levels (volts). */
-export interface StateLevels {
-  /** low state level (0 % reference) */
-  low: number
-  /** high state level (100 % reference) */
-  high: number
-  /** high - low */
-  amplitude: number
-  /** 10 % reference level: low + 0.1 amplitude */
-  ref10: number
-  /** 50 % (mesial) reference level */
-  ref50: number
-  /** 90 % reference level */
-  ref90: number
-  /** rms spread of the samples within 10 % of the amplitude around each state level */
-  noiseLow: number
-  noiseHigh: number
-  /** histogram bins used */
-  bins: number
-}
+import type { StateLevels } from '../../shared/types/capture'
+export type { StateLevels }
+
 
 /** Default bin count: the customary 100 of common state-level routines (common practice). */
 export const DEFAULT_BINS = 100

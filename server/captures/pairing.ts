@@ -1,35 +1,9 @@
 import type { Edge, Polarity } from './transitions'
 import { RunningStats, type SummaryStats } from './stats'
+import type { EdgePair, Pairing } from '../../shared/types/capture'
+export type { EdgePair, Pairing }
 
-/** One input edge and the output edge it caused. */
-export interface EdgePair {
-  /** seconds: the input edge's 50 % instant */
-  input: number
-  /** seconds: the output edge's 50 % instant */
-  output: number
-  /** seconds, 50 % to 50 % */
-  delay: number
-  /** JEDEC naming by the OUTPUT's direction: tPLH when the output rises, tPHL when it falls */
-  kind: 'tPLH' | 'tPHL'
-}
 
-export interface Pairing {
-  inverting: boolean
-  /** 'given' when the caller said whether the path inverts, 'detected' otherwise */
-  inversionSource: 'given' | 'detected'
-  /** detected only: fraction of input edges whose next output edge agreed with the decision (0-1) */
-  inversionAgreement: number | null
-  /** every pair, in time order */
-  pairs: EdgePair[]
-  /** seconds, 50 % to 50 %, output rising */
-  tPLH: SummaryStats | null
-  /** seconds, 50 % to 50 %, output falling */
-  tPHL: SummaryStats | null
-  /** seconds: mean tPLH - mean tPHL (the measured pulse-width distortion, signed), null unless both exist */
-  pwd: number | null
-  /** input edges for which no output edge of the expected direction followed in time */
-  unpairedInputEdges: number
-}
 
 const flip = (p: Polarity): Polarity => (p === 'rising' ? 'falling' : 'rising')
 

@@ -1,6 +1,8 @@
 import { CaptureFormatError } from './errors'
 import { MinMaxDownsampler, type CaptureWaveform } from './downsample'
 import { sniffText } from './sniff'
+import type { Delimiter, CaptureColumn, CaptureFormat } from '../../shared/types/capture'
+export type { Delimiter, CaptureColumn, CaptureFormat }
 
 /*
  * Streaming CSV/TSV reader for oscilloscope exports.
@@ -26,31 +28,8 @@ import { sniffText } from './sniff'
  * at these sizes.
  */
 
-export type Delimiter = ',' | '\t' | ';'
 
-/** One column of the capture as the file names it. */
-export interface CaptureColumn {
-  /** the column name from the file's name row, or "time" / "ch1", "ch2" ... */
-  name: string
-  /** the unit as written in the file ("s", "us", "mV"), or null if none was given */
-  unit: string | null
-  /** factor that converts the file's numbers to SI (seconds or volts) */
-  scale: number
-}
 
-/** What the reader learned about the file's layout. */
-export interface CaptureFormat {
-  delimiter: Delimiter
-  /** true when numbers use a decimal comma (semicolon- or tab-separated files only) */
-  decimalComma: boolean
-  /** 1-based line number of the first sample */
-  firstDataLine: number
-  /** the header lines before the data (metadata, names, units), at most 50 kept, each cut to 200 characters */
-  header: string[]
-  time: CaptureColumn
-  channels: CaptureColumn[]
-  warnings: string[]
-}
 
 export interface ParsedCapture {
   format: CaptureFormat

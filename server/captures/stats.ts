@@ -1,12 +1,6 @@
-/** Count, min, mean, max and sample standard deviation of a set of values (seconds). */
-export interface SummaryStats {
-  count: number
-  min: number
-  mean: number
-  max: number
-  /** sample standard deviation (n - 1 in the denominator); 0 for a single value */
-  sigma: number
-}
+import type { SummaryStats } from '../../shared/types/capture'
+export type { SummaryStats }
+
 
 /**
  * Running statistics by Welford's update (numerically stable for many close values,

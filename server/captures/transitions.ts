@@ -1,19 +1,8 @@
 import type { StateLevels } from './levels'
+import type { Polarity, Edge } from '../../shared/types/capture'
+export type { Polarity, Edge }
 
-export type Polarity = 'rising' | 'falling'
 
-/** One transition of a channel. Times in seconds from the capture's time origin. */
-export interface Edge {
-  polarity: Polarity
-  /** 50 % reference level instant, linearly interpolated between the two samples that straddle it */
-  t50: number
-  /** 10 % reference level instant of this transition, or null if the capture does not show it */
-  t10: number | null
-  /** 90 % reference level instant, or null */
-  t90: number | null
-  /** seconds: transition duration, 10 % to 90 % (rising) or 90 % to 10 % (falling); null when an instant is missing */
-  duration: number | null
-}
 
 export interface EdgeSearch {
   edges: Edge[]

@@ -14,7 +14,8 @@ import { Membership, PasswordResetToken, SignInAttempt, Team, User } from '../db
 import { forgetSessionRevocation } from '../utils/access'
 import { useDb } from '../utils/db'
 import { ConflictError, InvalidError, RateLimitedError, UnauthorizedError } from '../utils/errors'
-import { sendMail } from '../utils/mail'
+import { sendMail } from '../mail/send'
+import { passwordResetMail } from '../mail/templates'
 import { appUrl, signInLimits } from '../utils/settings'
 import { hashToken, newToken } from '../utils/tokens'
 import { audit } from './audit'
@@ -96,15 +97,7 @@ export async function requestPasswordReset(email: string): Promise<(() => Promis
     await PasswordResetToken.create({ userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_TOKEN_LIFETIME_MS) }, { transaction })
   })
   const url = `${appUrl()}/reset-password?token=${encodeURIComponent(token)}`
-  return () =>
-    sendMail({
-      to: user.email,
-      subject: 'Reset your Bitslack password',
-      greeting: `Hello ${user.name},`,
-      paragraphs: ['Someone (we hope you) asked to reset the password of your Bitslack account. Choose a new password with the link below.', 'If you did not ask for this, ignore this mail: your password stays as it is.'],
-      action: { label: 'Choose a new password', url },
-      footnote: 'The link works once and expires in one hour.',
-    })
+  return () => sendMail(passwordResetMail(user, url))
 }
 
 /** Set a new password with a valid, unused, unexpired token; the token is spent and every session signed in before is revoked. */

@@ -11,7 +11,8 @@ import type { InvitationBody } from '../../shared/schemas/team'
 import { Invitation, Membership, Team, User } from '../db/models'
 import { useDb } from '../utils/db'
 import { ConflictError, InvalidError, NotFoundError, UnauthorizedError } from '../utils/errors'
-import { sendMail } from '../utils/mail'
+import { sendMail } from '../mail/send'
+import { invitationMail } from '../mail/templates'
 import { appUrl } from '../utils/settings'
 import { hashToken, newToken } from '../utils/tokens'
 import { audit } from './audit'
@@ -46,17 +47,7 @@ export async function createInvitation(teamId: number, inviter: SessionUser, bod
     return created
   })
   const team = await Team.findByPk(teamId)
-  await sendMail({
-    to: body.email,
-    subject: `${inviter.name} invited you to ${team?.name ?? 'a team'} on Bitslack`,
-    greeting: 'Hello,',
-    paragraphs: [
-      `${inviter.name} invited you to join the team "${team?.name ?? ''}" on Bitslack as ${body.role === 'admin' || body.role === 'engineer' ? 'an' : 'a'} ${body.role}.`,
-      'Bitslack is where the team works out the timing budgets of its isolated UART and SPI links.',
-    ],
-    action: { label: 'Accept the invitation', url: `${appUrl()}/accept-invitation?token=${encodeURIComponent(token)}` },
-    footnote: 'The link works once and expires in seven days.',
-  })
+  await sendMail(invitationMail(body.email, inviter, team?.name ?? null, body.role, `${appUrl()}/accept-invitation?token=${encodeURIComponent(token)}`))
   await invitation.reload({ include: [withInviter] })
   return invitation
 }

@@ -15,10 +15,16 @@ import { freezeCaptures } from '../reports/captures'
 import { freezeAnalysis, recomputeRevision } from '../reports/freeze'
 import { useDb } from '../utils/db'
 import { ConflictError, ForbiddenError, InvalidError } from '../utils/errors'
-import { sendMail } from '../utils/mail'
+import { sendMail } from '../mail/send'
+import { reportDecidedMail, reportSubmittedMail, type RevisionRef } from '../mail/templates'
 import { appUrl } from '../utils/settings'
 import { requireCompleteSpec } from './analysis'
 import { audit } from './audit'
+
+/** What a mail says about a revision. */
+function revisionRef(rev: ReportRevision): RevisionRef {
+  return { id: rev.id, label: revisionLabel(rev.number), linkName: rev.linkName, projectName: rev.projectName, verdict: rev.verdict }
+}
 
 const people = [
   { model: User, as: 'author', attributes: ['id', 'name', 'email'] },
@@ -142,16 +148,7 @@ export async function submitRevision(revisionId: number, actorId: number, review
     await audit(transaction, { teamId: rev.teamId, userId: actorId, action: 'report.submit', entity: 'report', entityId: rev.id, detail: { revision: revisionLabel(rev.number), reviewerId } })
     return { rev, reviewer, actor }
   })
-  await sendMail({
-    to: reviewer.email,
-    subject: `Margin report to review: ${rev.linkName} ${revisionLabel(rev.number)}`,
-    greeting: `Hello ${reviewer.name},`,
-    paragraphs: [
-      `${actor.name} submitted the margin report ${revisionLabel(rev.number)} of "${rev.linkName}" (project ${rev.projectName}) for your review.`,
-      `Verdict at freeze time: ${rev.verdict}. Read it, comment on any bit, check or stage, then sign it off or return it.`,
-    ],
-    action: { label: 'Open the margin report', url: `${appUrl()}/reports/${rev.id}` },
-  })
+  await sendMail(reportSubmittedMail(reviewer, actor, revisionRef(rev), `${appUrl()}/reports/${rev.id}`))
   return loadRevision(revisionId)
 }
 
@@ -185,21 +182,7 @@ export async function decideRevision(revisionId: number, actorId: number, decisi
     return { rev, author, actor }
   })
   if (author) {
-    const label = revisionLabel(rev.number)
-    await sendMail({
-      to: author.email,
-      subject: decision === 'sign-off' ? `Margin report signed off: ${rev.linkName} ${label}` : `Margin report returned: ${rev.linkName} ${label}`,
-      greeting: `Hello ${author.name},`,
-      paragraphs:
-        decision === 'sign-off'
-          ? [`${actor.name} signed off the margin report ${label} of "${rev.linkName}" (project ${rev.projectName}).`, ...(note ? [`Note: ${note}`] : [])]
-          : [
-              `${actor.name} returned the margin report ${label} of "${rev.linkName}" (project ${rev.projectName}) with this comment:`,
-              note ?? '',
-              'Address the comments, then freeze and submit a new revision.',
-            ],
-      action: { label: 'Open the margin report', url: `${appUrl()}/reports/${rev.id}` },
-    })
+    await sendMail(reportDecidedMail(author, actor, revisionRef(rev), decision, note ?? null, `${appUrl()}/reports/${rev.id}`))
   }
   return loadRevision(revisionId)
 }

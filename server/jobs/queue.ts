@@ -3,12 +3,12 @@
  * One PgBoss per process, started by server/plugins/jobs.ts.
  */
 import PgBoss from 'pg-boss'
-import type { QueuedMail } from '../utils/mail'
+import type { QueuedMail } from '../mail/types'
 
 /** Extract the edges of one uploaded capture: data { captureId }. */
 export const CAPTURE_EXTRACT = 'capture-extract'
 
-/** Deliver one rendered e-mail: data QueuedMail (server/utils/mail.ts). */
+/** Deliver one rendered e-mail: data QueuedMail (server/mail/types.ts). */
 export const MAIL_SEND = 'mail-send'
 
 let boss: PgBoss | undefined

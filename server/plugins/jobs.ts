@@ -9,7 +9,7 @@ import { requeueStrandedCaptures } from '../domain/captures'
 import { extractCapture } from '../jobs/capture-extract'
 import { startQueue, stopQueue } from '../jobs/queue'
 import { useStorage } from '../storage/s3'
-import { deliverMail } from '../utils/mail'
+import { deliverMail } from '../mail/send'
 
 export default defineNitroPlugin((nitroApp) => {
   const ready = (async () => {

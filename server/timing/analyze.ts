@@ -4,8 +4,7 @@
  * slacks, one verdict, every assumption in words, every warning, the engine version
  * and the full input used, so a margin report can be recomputed.
  */
-import type { z } from 'zod'
-import { LinkSpec, type Link, type UartSettings } from '../../shared/schemas/link'
+import { LinkSpec, type Link, type UartSettings, type LinkInput } from '../../shared/schemas/link'
 import { analyzeChain, type ChainAnalysis } from './chain'
 import { EngineInputError } from './errors'
 import { phototransistorAssumptions, type CouplerModelInfo } from './phototransistor'
@@ -13,55 +12,15 @@ import { analyzeSpi, type SpiResult } from './spi'
 import type { ChainResult, Corners, Warning } from './types'
 import { analyzeUartChannel, type ReceiverEnd, type TransmitterEnd, type UartChannelResult } from './uart'
 import { ENGINE_VERSION } from './version'
+import type { Verdict, ChannelResult, UartResult, LinkAnalysis } from '../../shared/types/analysis'
+export type { Verdict, ChannelResult, UartResult, LinkAnalysis }
 
-export type Verdict = 'pass' | 'marginal' | 'fail'
 
-/** One channel as the result reports it (physical directions at the receiving pin): the chain result without its warnings (they join the link's list), plus what a report shows of it. */
-export interface ChannelResult extends Omit<ChainResult, 'warnings'> {
-  /** nominal D_rise - D_fall, seconds */
-  pwdTyp: number
-  /** the receiving pin's own contribution to D_rise - D_fall, seconds */
-  receiverTerm: Corners
-  /** the channel can carry data at all (polarity, reachable thresholds, saturated outputs) */
-  functional: boolean
-  stages: {
-    index: number
-    name: string
-    kind: string
-    inverting: boolean
-    tplh: Corners
-    tphl: Corners
-    tr: { typ: number; max: number }
-    tf: { typ: number; max: number }
-    /** this stage's rising minus falling output delay, threshold offsets included, seconds */
-    asymmetry: Corners
-    /** the sign with which that enters the chain PWD */
-    sign: 1 | -1
-    operating?: { ledCurrent: number; icRequired: number; icAvailable: number; overdrive: number; saturated: boolean; power: number }
-    /** the calibrated phototransistor model (phototransistor stages) */
-    coupler?: CouplerModelInfo
-  }[]
-}
 
-export interface UartResult extends UartChannelResult {
-  /** every uart channel's analysis (the top level repeats the worst one) */
-  byChannel: UartChannelResult[]
-}
 
-export interface LinkAnalysis {
-  engineVersion: string
-  verdict: Verdict
-  channels: ChannelResult[]
-  uart: UartResult | null
-  spi: SpiResult | null
-  assumptions: string[]
-  warnings: Warning[]
-  /** the full parsed input (defaults filled in) */
-  input: Link
-}
 
 /** Validate and default a link, turning the schema's first issue into an EngineInputError. */
-export function parseLink(input: z.input<typeof LinkSpec> | Link | unknown): Link {
+export function parseLink(input: LinkInput | Link | unknown): Link {
   const r = LinkSpec.safeParse(input)
   if (r.success) return r.data
   const issues = r.error.issues.map((i) => ({ path: i.path.map((p) => (typeof p === 'symbol' ? String(p) : p)), message: i.message }))
@@ -93,7 +52,7 @@ const UART_ASSUMPTIONS = [
 ]
 
 /** Analyse one link. Accepts the schema's input form (defaults optional) or an already parsed link. */
-export function analyzeLink(input: z.input<typeof LinkSpec> | Link): LinkAnalysis {
+export function analyzeLink(input: LinkInput | Link): LinkAnalysis {
   const link = parseLink(input)
   const warnings: Warning[] = []
   const assumptions = [...GENERAL_ASSUMPTIONS]

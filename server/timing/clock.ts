@@ -8,19 +8,9 @@
  * requested one by the quantisation error; the oscillator's own tolerance comes on top.
  */
 import { EngineInputError } from './errors'
+import type { BaudGeneratorResult, RateErrorBounds } from '../../shared/types/analysis'
+export type { BaudGeneratorResult, RateErrorBounds }
 
-export interface BaudGeneratorResult {
-  /** the divisor the generator is programmed with (a multiple of 1/2^fractionBits, >= 1) */
-  divisor: number
-  /** the rate it produces, baud */
-  actualBaud: number
-  /** actualBaud / baud - 1 (signed fraction; +0.0064 = +0.64 %) */
-  error: number
-  /** false when the rate needs a divisor below 1: the generator cannot produce it (the divisor is held at 1) */
-  reachable: boolean
-  /** the divisor has a fractional part: the tick periods alternate and the samples are unevenly spaced */
-  fractional: boolean
-}
 
 /**
  * The divisor, actual rate and error of a baud generator.
@@ -50,17 +40,6 @@ export interface ClockSpec {
   tolerancePpm?: number
 }
 
-/** Bit-rate error interval of one end, fractions of the nominal rate (rate = baud * (1 + e)). */
-export interface RateErrorBounds {
-  /** lowest rate error, fraction (negative: slow) */
-  min: number
-  /** highest rate error, fraction */
-  max: number
-  /** the generator's divisor and quantisation error, when the end has a generator */
-  generator: BaudGeneratorResult | null
-  /** the oscillator tolerance used, ppm */
-  tolerancePpm: number
-}
 
 /**
  * Rate error bounds of one end at `baud`: a stated +-errorPpm, or the generator's

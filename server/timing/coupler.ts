@@ -31,18 +31,9 @@
  */
 
 import { VBE_HIGH, VBE_LOW } from '../../shared/utils/coupler'
+import type { ChargeControlParams, SwitchingQuantity } from '../../shared/types/analysis'
+export type { ChargeControlParams, SwitchingQuantity }
 
-/** The calibrated parameters of one coupler. */
-export interface ChargeControlParams {
-  /** storage time constant of the saturated output transistor, seconds */
-  tauS: number
-  /** effective Miller capacitance hFE x C_CB, farads */
-  cMiller: number
-  /** first-order lag of the LED and photodiode response, seconds */
-  tauLed: number
-  /** base charge before the collector conducts, as collector current x time (hFE x Q), ampere-seconds */
-  qOn: number
-}
 
 /** Where the coupler operates. */
 export interface CouplerOperatingPoint {
@@ -240,7 +231,6 @@ export interface CalibrationPoint {
   tf?: number
 }
 
-export type SwitchingQuantity = 'tplh' | 'tphl' | 'tr' | 'tf'
 export const SWITCHING_QUANTITIES: readonly SwitchingQuantity[] = ['tplh', 'tphl', 'tr', 'tf']
 
 /** The calibration and how well it reproduces its points. */

@@ -40,6 +40,8 @@ import {
   type SwitchingQuantity,
 } from './coupler'
 import type { Corners, EdgeShape, StageEdgeModel, Warning } from './types'
+import type { PhototransistorOperating, CouplerModelInfo } from '../../shared/types/analysis'
+export type { PhototransistorOperating, CouplerModelInfo }
 
 export { ledCurrentOf }
 
@@ -80,45 +82,7 @@ function modelQuantity(wiring: 'collector' | 'emitter', q: CharQuantity): Switch
   return q === 'tplh' ? 'tphl' : q === 'tphl' ? 'tplh' : q === 'tr' ? 'tf' : 'tr'
 }
 
-/** Static operating point of the stage. */
-export interface PhototransistorOperating {
-  /** LED forward current, amperes */
-  ledCurrent: number
-  /** collector current needed to pull the output to VCE(sat), amperes */
-  icRequired: number
-  /** collector current available with the derated minimum CTR, less what R_BE diverts, amperes */
-  icAvailable: number
-  /** icAvailable / icRequired (>= 1 saturates) */
-  overdrive: number
-  saturated: boolean
-  /** static on-state package dissipation (LED + transistor), watts */
-  power: number
-}
 
-/** What the calibrated model says about the stage, for the form and the report. */
-export interface CouplerModelInfo {
-  /** calibrated charge-control parameters (at the stated or assumed typical CTR) */
-  params: ChargeControlParams
-  /** how well they reproduce the points: relative residuals */
-  fit: { values: number; points: number; rmsRelative: number; maxRelative: number; residuals: Calibration['residuals'] }
-  /** the typical CTR used, fraction, and whether it was assumed */
-  ctrTyp: number
-  ctrTypAssumed: boolean
-  /** the output transistor's gain used, and whether it was assumed */
-  hfe: number
-  hfeAssumed: boolean
-  /** at the stage's operating point: storage delay and edge time constant, seconds; typical overdrive */
-  storage: number
-  tau: number
-  typicalOverdrive: number
-  /** collector current R_BE diverts at turn-on (VBE high), amperes */
-  rbeCurrent: number
-  /** the characterised box: [min, max] of the points' pull-ups, LED currents and loads */
-  range: { rl: [number, number]; ledCurrent: [number, number]; loadCap: [number, number] }
-  outsideRange: boolean
-  /** the conditions each point was taken at, as used (defaults filled in) */
-  pointConditions: { rl: number; ledCurrent: number; loadCap: number; vcc: number; rbe: number | null; assumed: string[] }[]
-}
 
 /** Product of the CTR derating factors (defaults 1). */
 export function ctrDeratingOf(stage: Pick<PhototransistorStage, 'ctrDerating'>): number {

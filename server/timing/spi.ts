@@ -13,8 +13,9 @@
  */
 import type { Link, SpiSettings } from '../../shared/schemas/link'
 import type { ChainResult, Corners, Warning } from './types'
+import type { SpiCheckId, SpiCheck, SpiCandidate, SpiResult } from '../../shared/types/analysis'
+export type { SpiCheckId, SpiCheck, SpiCandidate, SpiResult }
 
-export type SpiCheckId = 'mosi-setup' | 'mosi-hold' | 'sclk-high' | 'sclk-low' | 'miso-setup' | 'miso-hold' | 'cs-lead' | 'cs-lag' | 'pulse-width'
 
 export const SPI_CHECK_IDS: readonly SpiCheckId[] = [
   'mosi-setup',
@@ -30,56 +31,8 @@ export const SPI_CHECK_IDS: readonly SpiCheckId[] = [
 /** Highest SCLK reported when no check limits it, hertz (the schema's SCLK limit). */
 export const SPI_SCLK_CAP = 1e9
 
-export interface SpiCheck {
-  id: SpiCheckId
-  /** slack at the link's SCLK, seconds (negative: violated) */
-  slack: number
-  /** slack as a fraction of the half period */
-  slackFraction: number
-  /** the guard every check must keep (spi.requiredSlack), seconds */
-  required: number
-  pass: boolean
-  /** slack = slope * halfPeriod + offset: how the check scales with SCLK */
-  slope: number
-  offset: number
-  /** what is compared, in words */
-  description: string
-}
 
-export interface SpiCandidate {
-  sclkHz: number
-  /** controller prescaler divisor, null when the frequency is from the standard list */
-  prescaler: number | null
-  worstSlack: number
-  worstCheck: SpiCheckId
-  pass: boolean
-}
 
-export interface SpiResult {
-  sclkHz: number
-  halfPeriod: number
-  /** SPI mode number 2*CPOL + CPHA */
-  mode: number
-  checks: SpiCheck[]
-  /** the smallest slack less its requirement, seconds; null when the link cannot carry data */
-  worstSlack: number | null
-  worstCheck: SpiCheckId | null
-  /** why no slack is computed (a channel cannot carry data); null when computed */
-  noSlackReason: string | null
-  /** every check meets requiredSlack at sclkHz */
-  pass: boolean
-  /** highest SCLK meeting every check, hertz; null when no SCLK passes */
-  maxSclkHz: number | null
-  /** the check that sets maxSclkHz (null when no check limits it up to the cap) */
-  limitingCheck: SpiCheckId | null
-  /** SCLK forward + clock-to-output + MISO return, seconds */
-  roundTrip: { min: number; max: number }
-  candidates: SpiCandidate[]
-  /** index in candidates[] of the fastest passing one, null when none passes */
-  fastestPassing: number | null
-  warnings: Warning[]
-  assumptions: string[]
-}
 
 type Dir = 'rise' | 'fall'
 const flip = (d: Dir): Dir => (d === 'rise' ? 'fall' : 'rise')

@@ -14,8 +14,7 @@
  * The kernel reduces each chain to a small plan of numbers once, then evaluates only
  * sums in the trial loop.
  */
-import type { z } from 'zod'
-import type { Link, LinkSpec } from '../../shared/schemas/link'
+import type { Link, LinkSpec, LinkInput } from '../../shared/schemas/link'
 import { analyzeLink, parseLink } from './analyze'
 import { analyzeChain } from './chain'
 import { offsetFactor, thresholdFraction, type Direction } from './edges'
@@ -24,38 +23,10 @@ import { createRng, histogram, quantileSorted, type HistogramBin, type Rng } fro
 import type { EdgeShape } from './types'
 import { frameLayout, type UartChannelResult } from './uart'
 import { ENGINE_VERSION } from './version'
+import type { SpreadStudyOptions, SpreadStudyResult } from '../../shared/types/analysis'
+export type { SpreadStudyOptions, SpreadStudyResult }
 
-export interface SpreadStudyOptions {
-  /** number of trials (default 10 000, at most 1 000 000) */
-  trials?: number
-  /** seed of the random generator (default 1) */
-  seed?: number
-  /** how a stage's delay is drawn within its corners (default uniform) */
-  distribution?: 'uniform' | 'normal'
-  /** histogram bins (default 40) */
-  bins?: number
-}
 
-export interface SpreadStudyResult {
-  engineVersion: string
-  trials: number
-  seed: number
-  distribution: 'uniform' | 'normal'
-  /** trials whose worst margin is below 0 UI (a bit read wrong) */
-  failures: number
-  failFraction: number
-  /** trials below the link's required margin */
-  belowRequired: number
-  belowRequiredFraction: number
-  requiredMarginUi: number
-  /** quantiles of the frame's worst margin, UI (p1 = 1st percentile) */
-  worstMarginUi: { min: number; p1: number; p5: number; p25: number; p50: number; p75: number; p95: number; p99: number; max: number; mean: number }
-  histogram: HistogramBin[]
-  /** the uart channels included */
-  channels: string[]
-  /** wall time of the trial loop, milliseconds (informational) */
-  elapsedMs: number
-}
 
 /** One output direction of one stage in the plan. */
 interface DirPlan {
@@ -262,7 +233,7 @@ function buildDirection(link: Link, ci: number, r: UartChannelResult): Direction
  * Monte Carlo spread study of a UART link: the distribution of the frame's worst margin.
  * @returns trials, failures (worst margin below 0 UI), failFraction, quantiles and a histogram
  */
-export function spreadStudy(input: z.input<typeof LinkSpec> | Link, options: SpreadStudyOptions = {}): SpreadStudyResult {
+export function spreadStudy(input: LinkInput | Link, options: SpreadStudyOptions = {}): SpreadStudyResult {
   const link = parseLink(input)
   const trials = options.trials ?? 10000
   const seed = options.seed ?? 1

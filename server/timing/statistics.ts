@@ -222,13 +222,6 @@ export function quantileSorted(sorted: ArrayLike<number>, p: number): number {
   return sorted[lo]! + (h - lo) * (sorted[hi]! - sorted[lo]!)
 }
 
-export interface HistogramBin {
-  /** lower edge (inclusive) */
-  lo: number
-  /** upper edge (exclusive, inclusive for the last bin) */
-  hi: number
-  count: number
-}
 
 /** Equal-width histogram of `values` over [min, max] in `bins` bins. */
 export function histogram(values: ArrayLike<number>, bins: number, min?: number, max?: number): HistogramBin[] {
@@ -253,3 +246,6 @@ export function histogram(values: ArrayLike<number>, bins: number, min?: number,
   }
   return counts.map((count, k) => ({ lo: lo + k * width, hi: k === bins - 1 ? hi : lo + (k + 1) * width, count }))
 }
+
+import type { HistogramBin } from '../../shared/types/analysis'
+export type { HistogramBin }

@@ -20,98 +20,12 @@ import { nearestNotAbove, seriesValues, type SeriesName } from './eseries'
 import { ctrDeratingOf, phototransistorInverts, phototransistorModel } from './phototransistor'
 import { fixedClockCases, frameLayout, marginAndMaxBaud, statedClockErrors, type ClockErrors, type Distortion, type FixedClockCases, type MarginAndMaxBaud } from './uart'
 import type { UartChannelResult } from './uart'
+import type { PullupSweepOptions, PullupSweepRow, SweepAdvice, PullupSweepResult } from '../../shared/types/analysis'
+export type { PullupSweepOptions, PullupSweepRow, SweepAdvice, PullupSweepResult }
 
-export interface PullupSweepOptions {
-  /** E series for both RL and the LED resistor */
-  series: 'E12' | 'E24' | 'E96'
-  /** pull-up range, ohms (inclusive) */
-  rlMin: number
-  rlMax: number
-  /** IC available / IC needed that the LED current must give (default 1: the derating factors carry the margin) */
-  overdrive?: number
-  /** baud at which each row's margin is computed (default: the link's baud) */
-  targetBaud?: number
-  /** base-emitter resistor range swept over E12 when the stage has one, ohms (default 47 kOhm to 1 MOhm) */
-  rbeMin?: number
-  rbeMax?: number
-}
 
-export interface PullupSweepRow {
-  /** pull-up (load) resistor, ohms */
-  rl: number
-  /** base-emitter resistor of the row, ohms; null: open base */
-  rbe: number | null
-  /** collector current for saturation, (VCC - VCE(sat)) / RL, amperes */
-  ic: number
-  /** LED current giving ic x overdrive (plus what RBE diverts) with the derated minimum CTR, amperes */
-  ledCurrentRequired: number
-  /** largest standard LED resistor that still gives ledCurrentRequired, ohms; null when the drive cannot */
-  rLed: number | null
-  /** LED current with that resistor, amperes; null when the drive cannot light the LED */
-  ledCurrent: number | null
-  /** overdrive actually reached with rLed */
-  overdrive: number
-  /** static on-state coupler dissipation, watts */
-  power: number
-  /** predicted typical switching times at this RL, IF and RBE, seconds */
-  tplh: number
-  tphl: number
-  tr: number
-  tf: number
-  /** no absolute maximum exceeded, output saturates */
-  withinRatings: boolean
-  /** the link's worst margin at the target baud meets its required margin */
-  meetsTarget: boolean
-  /** withinRatings and meetsTarget */
-  feasible: boolean
-  /** why the row is not feasible, ratings first (empty when it is) */
-  reasons: string[]
-  /** other warnings for this row that are not stated once for the whole sweep */
-  notes: string[]
-  /** the link's worst margin at the target baud (worst uart direction), UI; null when not computed (the link cannot carry data) */
-  marginUi: number | null
-  /** the link's highest baud meeting the required margin (lowest over its directions); null when none (or not computed) */
-  maxBaud: number | null
-  /** the analysis verdict at the target baud */
-  verdict: Verdict | null
-  /** feasible and faster (higher maxBaud) than the recommended row */
-  fasterAlternative: boolean
-}
 
-/** A circuit change evaluated when no row meets the target. */
-export interface SweepAdvice {
-  change: 'rbe' | 'schmitt-buffer' | 'logic-output-coupler' | 'lower-rate'
-  /** what to do, in words */
-  description: string
-  /** the link's worst margin at the target baud with the change, UI (null: not computed) */
-  marginUi: number | null
-  /** the link's maximum baud with the change */
-  maxBaud: number | null
-  meetsTarget: boolean
-}
 
-export interface PullupSweepResult {
-  channelId: string
-  stageIndex: number
-  series: 'E12' | 'E24' | 'E96'
-  targetBaud: number
-  overdrive: number
-  requiredMarginUi: number
-  rows: PullupSweepRow[]
-  /** the RBE values swept (E12), empty when the stage has no base-emitter resistor */
-  rbeValues: number[]
-  /** index of the recommended row, null when no row is feasible */
-  recommended: number | null
-  /** indices of the faster feasible alternatives, fastest first */
-  alternatives: number[]
-  /** notes that hold for every row, stated once (extrapolation of the model, assumed CTR ...) */
-  commonNotes: string[]
-  /** the stage's characterisation points, for the plot (times in seconds) */
-  points: { rl: number; ledCurrent: number | null; tplh?: number; tphl?: number; tr?: number; tf?: number }[]
-  /** when no row meets the target: the highest rate a row within ratings reaches, and the changes that would */
-  advice: { bestRow: number | null; reachedBaud: number | null; options: SweepAdvice[] } | null
-  assumptions: string[]
-}
 
 /** Most rows a sweep computes (E96 over ten decades is 960). */
 export const SWEEP_MAX_ROWS = 1000

@@ -36,10 +36,11 @@ import { bitTimeBounds, rateErrorBounds, statedErrorBounds, type BaudGeneratorRe
 import { EngineInputError } from './errors'
 import { gaussianTail, qFromBer, totalJitter } from './statistics'
 import type { Warning } from './types'
+import type { Parity, Vote, SamplerModel, LimitedBy, Distortion, ClockErrors, MarginLosses, UartBitResult, MaxBaudResult, ClockTolerance, StandardRateRow, BerEstimate, PulseCheck, UartChannelResult } from '../../shared/types/analysis'
+export type { Parity, Vote, SamplerModel, LimitedBy, Distortion, ClockErrors, MarginLosses, UartBitResult, MaxBaudResult, ClockTolerance, StandardRateRow, BerEstimate, PulseCheck, UartChannelResult }
 
 // ------------------------------------------------------------------ frame
 
-export type Parity = UartSettings['parity']
 
 /** One way a bit's run can start (early side) or end (late side), with a data value that produces it. */
 export interface FrameCase {
@@ -141,7 +142,6 @@ export function frameLayout(dataBits: number, parity: Parity, stopBits: number, 
 
 // ------------------------------------------------------------------ sampler
 
-export type Vote = 'single' | 'majority' | 'all'
 
 /** Receiver-side settings of one direction (the rx of the first uart channel, or the tx end for the second). */
 export interface ReceiverEnd extends ClockSpec {
@@ -157,20 +157,6 @@ export interface TransmitterEnd extends ClockSpec {
   oversampling?: number
 }
 
-export interface SamplerModel {
-  kind: 'ticks' | 'ideal'
-  oversampling: number | null
-  ticks: number[] | null
-  vote: Vote | null
-  /** position of the sample deciding the early side, receiver bit times after the bit's nominal start */
-  early: number
-  /** position of the sample deciding the late side, receiver bit times */
-  late: number
-  /** largest detection latency, receiver bit times (1/N; 0 for the ideal sampler) */
-  latency: number
-  /** how far a fractional divisor moves each sample off its even position, receiver bit times (absent: integer divisor) */
-  fractionalSpread?: number
-}
 
 /** Default sample ticks after the detection tick: the middle tick and, for a vote, its neighbours (16x: 7, 8, 9; 8x: 3, 4, 5). */
 export function defaultSampleTicks(oversampling: number, vote: Vote): number[] {
@@ -197,23 +183,8 @@ export function samplerModel(rx: ReceiverEnd, path: (string | number)[] = ['uart
 
 // ------------------------------------------------------------------ margins
 
-export type LimitedBy = 'asymmetry' | 'clock' | 'sampling' | 'jitter'
 
-/** Distortion of the received edges, seconds, logical directions. */
-export interface Distortion {
-  /** D_rise - D_fall interval (logical), seconds */
-  pwd: { min: number; max: number }
-  /** peak jitter of one edge, seconds */
-  jitterPeak: number
-  /** rms jitter of one edge, seconds */
-  jitterRms: number
-}
 
-/** Rate error intervals of both ends, fractions (rate = baud * (1 + e)). */
-export interface ClockErrors {
-  tx: { min: number; max: number }
-  rx: { min: number; max: number }
-}
 
 interface CaseTerms {
   /** the UI-invariant part of the margin, UI */
@@ -242,45 +213,7 @@ function caseTerms(c: FrameCase, side: 'early' | 'late', s: SamplerModel, d: Dis
   return { A: c.pos / (1 + e.tx.max) - (c.bit + s.late + s.latency) / (1 + e.rx.min), b }
 }
 
-export interface MarginLosses {
-  /** sample position and detection latency against an ideal mid-bit sample, seconds */
-  sampling: number
-  /** both clocks' error over the bits from the sync edge, seconds */
-  clock: number
-  /** PWD, seconds */
-  asymmetry: number
-  /** peak jitter of the edge and of the sync edge, seconds */
-  jitter: number
-}
 
-export interface UartBitResult {
-  index: number
-  label: string
-  /** worst early margin, seconds */
-  earlyMargin: number
-  /** worst late margin, seconds; null when the bit's run never ends for any data value */
-  lateMargin: number | null
-  /** min(early, late), seconds */
-  margin: number
-  /** margin in unit intervals (nominal bit times) */
-  marginUi: number
-  earlyMarginUi: number
-  lateMarginUi: number | null
-  /** data value that gives this bit its worst margin */
-  worstPattern: number
-  earlyPattern: number
-  latePattern: number | null
-  /** the side that sets the margin */
-  side: 'early' | 'late'
-  /** the largest loss on that side */
-  limitedBy: LimitedBy
-  losses: MarginLosses
-  /** the deciding samples relative to the start edge's arrival, seconds: earliest (early side), latest (late side) */
-  samples: { earliest: number; latest: number }
-  /** worst-case valid window of the bit's run relative to the start edge's arrival, seconds (validTo null: no end) */
-  validFrom: number
-  validTo: number | null
-}
 
 function losses(c: FrameCase, side: 'early' | 'late', s: SamplerModel, d: Distortion, e: ClockErrors, T: number): MarginLosses {
   const txT = bitTimeBounds(e.tx, 1 / T)
@@ -537,15 +470,6 @@ export function marginAndMaxBaud(
   return out
 }
 
-export interface MaxBaudResult {
-  /** highest baud meeting the required margin; the cap when distortion never limits below it; null when no rate passes */
-  maxBaud: number | null
-  cap: number
-  capped: boolean
-  /** the bit (and side) that sets it; null when capped or when nothing passes because of a distortion-free term */
-  limitedBy: { index: number; label: string; side: 'early' | 'late' } | null
-  note: string
-}
 
 /**
  * Maximum baud meeting `requiredUi` with the clock error fractions held fixed: every
@@ -602,15 +526,6 @@ export function maxBaud(layout: FrameLayout, s: SamplerModel, d: Distortion, e: 
   }
 }
 
-export interface ClockTolerance {
-  /** lowest incoming rate / receiver rate that still meets the required margin; null when none does */
-  slowest: number | null
-  /** highest incoming rate / receiver rate; null when none does */
-  fastest: number | null
-  /** the bits that set each bound */
-  slowestBit: number | null
-  fastestBit: number | null
-}
 
 /**
  * The incoming-rate range the frame tolerates (clock errors of both ends set aside):
@@ -662,95 +577,9 @@ export const STANDARD_BAUD_RATES = [
 /** Highest baud the max-baud search reports: the schema's own limit. */
 export const MAX_BAUD_CAP = 100e6
 
-export interface StandardRateRow {
-  baud: number
-  /** worst margin at this rate, UI; null when the link cannot carry data or a generator cannot produce the rate */
-  marginUi: number | null
-  pass: boolean
-  /** the receiver's generator divisor at this rate (else the transmitter's), null without a generator */
-  divisor: number | null
-  /** that generator's quantisation error, signed fraction */
-  error: number | null
-  generators: { tx: BaudGeneratorResult | null; rx: BaudGeneratorResult | null }
-  /** why the rate fails without a margin (a generator cannot produce it, a pulse too short for a stage) */
-  note: string | null
-}
 
-export interface BerEstimate {
-  berTarget: number
-  /** Q(berTarget) = Phi^-1(1 - BER) */
-  q: number
-  /** random jitter of one received edge, rms seconds */
-  rjRms: number
-  /** deterministic (bounded) jitter, peak to peak seconds (twice the peak) */
-  djPeakToPeak: number
-  /** dual-Dirac total jitter at berTarget, seconds */
-  totalJitter: number
-  totalJitterUi: number
-  /** rms spread of an edge against the sync edge (both jitter), seconds */
-  edgeSigma: number
-  /** per sampled bit: probability that random jitter carries an edge past a worst-case margin */
-  bits: { index: number; label: string; errorProbability: number }[]
-  /** the worst bit's error probability */
-  worstBitErrorProbability: number
-  /** probability that a frame has at least one bit error */
-  frameErrorProbability: number
-  meetsTarget: boolean
-}
 
-/** The shortest pulse a stage in the chain passes, and the check of the frame's shortest pulse against it. */
-export interface PulseCheck {
-  /** the stage that needs the longest pulse */
-  stage: string
-  /** shortest pulse it passes (minimum pulse width, glitch filter, maximum data rate), seconds */
-  required: number
-  /** the frame's shortest pulse at the configured rate: one fast transmitter bit less the chain's worst |PWD|, seconds */
-  shortest: number
-  pass: boolean
-}
 
-export interface UartChannelResult {
-  channelId: string
-  baud: number
-  /** nominal bit time 1 / baud, seconds */
-  bitTime: number
-  frame: { dataBits: number; parity: Parity; stopBits: number; backToBack: boolean; frameBits: number }
-  sampler: SamplerModel
-  clocks: { tx: RateErrorBounds; rx: RateErrorBounds }
-  /** the distortion the margins use (logical directions) */
-  distortion: Distortion
-  requiredMarginUi: number
-  /** per-bit margins at the configured rate; empty when no margin is computed (see `noMarginReason`) */
-  bits: UartBitResult[]
-  /** the worst margin, UI; null when the link cannot carry data at the configured rate */
-  worstMarginUi: number | null
-  worstBit: number | null
-  verdict: 'pass' | 'marginal' | 'fail'
-  /** the channel can carry data at all (polarity, thresholds, saturated output, an output that switches) */
-  functional: boolean
-  /** why no margin is computed at the configured rate (not functional, a rate a generator cannot produce, a lost pulse); null when computed */
-  noMarginReason: string | null
-  maxBaud: number | null
-  maxBaudCap: number
-  maxBaudCapped: boolean
-  maxBaudLimitedBy: MaxBaudResult['limitedBy']
-  maxBaudNote: string
-  clockTolerance: ClockTolerance
-  rateSweep: { baud: number; marginUi: number }[]
-  standardRates: StandardRateRow[]
-  /** the fastest standard rate that passes, null when none does */
-  fastestStandardRate: number | null
-  /** the shortest-pulse check of the chain's digital stages; null when none states a limit */
-  pulseCheck: PulseCheck | null
-  berEstimate: BerEstimate
-  /**
-   * Statistical view of the asymmetry (timing-model.md section 1): the chain PWD as its
-   * nominal value +- 3 sigma (root-sum-square of the stages' spreads), within the worst-case
-   * interval, at the configured clocks and jitter; null without pwdTyp / pwdSigma.
-   */
-  statistical: { pwd: { min: number; max: number }; worstMarginUi: number } | null
-  warnings: Warning[]
-}
 
 export interface UartChannelInput {
   channelId: string

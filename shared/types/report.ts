@@ -4,9 +4,8 @@
  * Only its review state moves: draft -> submitted -> signed off | returned. Dates are
  * ISO 8601 strings; every number inside `result` is the engine's own (SI units).
  */
-import type { SummaryStats } from '../../server/captures/stats'
-import type { LinkAnalysis } from '../../server/timing/analyze'
-import type { PullupSweepResult } from '../../server/timing/sweep'
+import type { SummaryStats } from './capture'
+import type { LinkAnalysis, PullupSweepResult } from './analysis'
 import type { Link } from '../schemas/link'
 import type { ReportState, CommentTarget } from '../schemas/report'
 import type { PersonRef } from './workspace'

@@ -3,7 +3,9 @@ import type { Link, Protocol, StageSpec } from '../schemas/link'
 import type { PartCategory } from '../schemas/part'
 import type { Role } from '../schemas/roles'
 
-export type Verdict = 'pass' | 'marginal' | 'fail'
+import type { Verdict } from './analysis'
+
+export type { Verdict }
 
 /** The analysis of a link condensed at save time (stored on the link row). */
 export interface LinkSummaryFields {

@@ -13,8 +13,7 @@
  *   was taken on (the stage's LED current, load, supply and base-emitter resistor); a point
  *   at the same conditions (within 1 %) is replaced.
  */
-import type { CaptureResult } from '../../server/captures/analyse'
-import type { SummaryStats } from '../../server/captures/stats'
+import type { CaptureResult, SummaryStats } from '../types/capture'
 import type { CharacterizationPoint, DelaySpec, Link, TransitionSpec } from '../schemas/link'
 import { ledCurrentOf } from './coupler'
 
