@@ -15,31 +15,23 @@ export function useLiveAnalysis(delayMs = 350) {
     const link = store.check?.link
     if (!store.valid || !link) return
     const mine = ++seq
-    store.analysing = true
+    store.beginAnalysis()
     try {
       const result = await $fetch<LinkAnalysis>('/api/analyze', { method: 'POST', body: link })
-      if (mine !== seq) return
-      store.setAnalysis(result)
-      store.analysisError = null
-      store.serverIssues = {}
+      if (mine === seq) store.applyAnalysis(result)
     } catch (err) {
-      if (mine !== seq) return
-      store.analysisError = apiErrorMessage(err, 'The analysis failed.')
-      store.serverIssues = apiIssues(err)
-    } finally {
-      if (mine === seq) store.analysing = false
+      if (mine === seq) store.failAnalysis(apiErrorMessage(err, 'The analysis failed.'), apiIssues(err))
     }
   }
 
   function schedule(immediate = false) {
     if (timer) clearTimeout(timer)
     if (!store.valid) {
-      store.analysing = false
       seq++ // an answer still in flight belongs to an older draft
-      store.setAnalysis(null)
+      store.clearAnalysis()
       return
     }
-    store.analysing = true
+    store.beginAnalysis()
     timer = setTimeout(run, immediate ? 0 : delayMs)
   }
 

@@ -1,13 +1,15 @@
 import { defineStore } from 'pinia'
+import { computed, ref } from 'vue'
+import { apiErrorMessage, apiIssues, apiStatus } from '../utils/apiError'
 import type { LinkInput } from '#shared/schemas/link'
 import { checkLinkDraft } from '#shared/schemas/linkDraft'
-import type { LinkAnalysis } from '#shared/types/analysis'
-import type { LinkView } from '~/types/api'
+import type { LinkAnalysis, PullupSweepRow } from '#shared/types/analysis'
+import type { LinkDto } from '#shared/types/workspace'
 
 /** The server's answer to a stale save (409): the version now stored and the link as stored. */
 export interface SaveConflict {
   currentVersion: number
-  link: LinkView | null
+  link: LinkDto | null
 }
 
 function clone<T>(v: T): T {
@@ -31,7 +33,7 @@ function canonical(v: unknown): string {
  */
 export const useDraftLinkStore = defineStore('draftLink', () => {
   const linkId = ref<string | null>(null)
-  const saved = ref<LinkView | null>(null)
+  const saved = ref<LinkDto | null>(null)
   const draft = ref<LinkInput | null>(null)
 
   const analysis = ref<LinkAnalysis | null>(null)
@@ -76,7 +78,7 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
   const savable = computed(() => !!check.value && fixCount.value === 0)
   const dirty = computed(() => !!draft.value && !!saved.value && canonical(draft.value) !== canonical(saved.value.spec))
 
-  function load(link: LinkView) {
+  function load(link: LinkDto) {
     linkId.value = String(link.id)
     saved.value = clone(link)
     draft.value = clone(link.spec)
@@ -96,7 +98,7 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
     saving.value = true
     saveError.value = null
     try {
-      const res = await $fetch<LinkView>(`/api/links/${linkId.value}`, {
+      const res = await $fetch<LinkDto>(`/api/links/${linkId.value}`, {
         method: 'PATCH',
         body: { version: saved.value.version, spec: draft.value },
       })
@@ -110,7 +112,7 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
     } catch (err) {
       const status = apiStatus(err)
       if (status === 409) {
-        const data = (err as { data?: { data?: { currentVersion?: number; link?: LinkView } } }).data?.data
+        const data = (err as { data?: { data?: { currentVersion?: number; link?: LinkDto } } }).data?.data
         conflict.value = { currentVersion: data?.currentVersion ?? saved.value.version + 1, link: data?.link ?? null }
       } else {
         saveError.value = apiErrorMessage(err, 'The link could not be saved.')
@@ -136,8 +138,47 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
     return save()
   }
 
-  function setAnalysis(a: LinkAnalysis | null) {
+  /** An analysis of the current draft is on its way (the shown result dims). */
+  function beginAnalysis() {
+    analysing.value = true
+  }
+  /** The server's analysis of the current draft: shown, with any earlier error cleared. */
+  function applyAnalysis(a: LinkAnalysis) {
     analysis.value = a
+    analysisError.value = null
+    serverIssues.value = {}
+    analysing.value = false
+  }
+  /** The analysis failed: its message, and the fields the server named. */
+  function failAnalysis(message: string, issues: Record<string, string>) {
+    analysisError.value = message
+    serverIssues.value = issues
+    analysing.value = false
+  }
+  /** The draft cannot be analysed (values missing or fields to fix): no result is shown, never a stale one. */
+  function clearAnalysis() {
+    analysis.value = null
+    analysing.value = false
+  }
+  /**
+   * Apply a pull-up sweep row to a phototransistor stage: its pull-up, its LED resistor (in
+   * place of an LED current) and its base-emitter resistor (the open-base row of an RBE sweep
+   * removes one).
+   */
+  function applySweepRow(channelIndex: number, stageIndex: number, row: PullupSweepRow) {
+    const st = draft.value?.channels[channelIndex]?.stages[stageIndex]
+    if (!st || st.kind !== 'phototransistor') return
+    st.rl = row.rl
+    if (row.rLed !== null) {
+      st.rLed = row.rLed
+      delete st.ledCurrent
+    }
+    if (row.rbe !== null) st.rbe = row.rbe
+    else delete st.rbe
+  }
+  /** Replace the draft with a changed spec (a capture applied to a stage, an import). */
+  function replaceDraft(spec: LinkInput) {
+    draft.value = clone(spec)
   }
 
   function reset() {
@@ -154,6 +195,7 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
 
   return {
     linkId, saved, draft, analysis, analysing, analysisError, serverIssues, saving, saveError, conflict, savedAt,
-    check, typing, issues, missingCount, fixCount, valid, savable, dirty, load, revert, save, takeTheirs, keepMine, setAnalysis, reset,
+    check, typing, issues, missingCount, fixCount, valid, savable, dirty, load, revert, save, takeTheirs, keepMine,
+    beginAnalysis, applyAnalysis, failAnalysis, clearAnalysis, applySweepRow, replaceDraft, reset,
   }
 })

@@ -1,24 +1,11 @@
 /**
- * How a margin reads: healthy (teal), thin (amber) or broken (rose), always with a word.
- * The thresholds are the link's own: below zero is broken, below the required margin thin.
+ * How a margin looks on screen: the classes of each state. The words and the rules (which
+ * state a value is in) are the shared report vocabulary's (shared/report/vocabulary.ts).
  */
-export type MarginState = 'healthy' | 'thin' | 'broken' | 'unknown'
+import type { MarginState } from '#shared/report/vocabulary'
 
-/**
- * @param required what the value must reach (below it: thin, below zero: broken)
- * @param thinBelow the team's thin threshold, when above the requirement (a guard band)
- */
-export function marginState(value: number | null | undefined, required = 0, thinBelow = required): MarginState {
-  if (value === null || value === undefined || !Number.isFinite(value)) return 'unknown'
-  if (value < 0) return 'broken'
-  if (value < Math.max(required, thinBelow)) return 'thin'
-  return 'healthy'
-}
-
-export const MARGIN_LABEL: Record<MarginState, string> = { healthy: 'healthy', thin: 'thin', broken: 'broken', unknown: 'no data' }
-
-export const VERDICT_STATE: Record<string, MarginState> = { pass: 'healthy', marginal: 'thin', fail: 'broken', incomplete: 'unknown' }
-export const VERDICT_LABEL: Record<string, string> = { pass: 'pass', marginal: 'marginal', fail: 'fail', incomplete: 'incomplete' }
+export { marginState, MARGIN_LABEL, VERDICT_STATE, VERDICT_LABEL, uartMarginState, spiSlackState, limitWords, warningWords, groupWarnings, hexByte, divisorText, rateErrorText, toleranceText, maxRateText } from '#shared/report/vocabulary'
+export type { MarginState, ReadingThresholds } from '#shared/report/vocabulary'
 
 /** Tailwind classes of a state's tag (background + text). */
 export function stateTagClass(state: MarginState): string {

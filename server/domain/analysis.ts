@@ -5,7 +5,7 @@
 import type { Link } from '../../shared/schemas/link'
 import type { LinkSummaryFields } from '../../shared/types/workspace'
 import { checkLinkDraft } from '../../shared/schemas/linkDraft'
-import { analyzeLink, type LinkAnalysis } from '../timing'
+import { analyzeParsedLink, type LinkAnalysis } from '../timing'
 import { ConflictError } from '../utils/errors'
 
 /** The analysis condensed for listings, cached on the link row at save time. */
@@ -39,5 +39,5 @@ export function incompleteSummary(missingValues: number): LinkSummaryFields {
 
 /** Analyse a link and summarise it (what a save stores). */
 export function analyzeAndSummarize(spec: Link): LinkSummaryFields {
-  return summarize(analyzeLink(spec))
+  return summarize(analyzeParsedLink(spec))
 }

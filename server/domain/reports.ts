@@ -20,6 +20,7 @@ import { reportDecidedMail, reportSubmittedMail, type RevisionRef } from '../mai
 import { appUrl } from '../utils/settings'
 import { requireCompleteSpec } from './analysis'
 import { audit } from './audit'
+import { readPolicy } from './policy'
 
 /** What a mail says about a revision. */
 function revisionRef(rev: ReportRevision): RevisionRef {
@@ -75,6 +76,7 @@ export async function freezeRevision(link: Link, userId: number, body: FreezeBod
       throw new ConflictError('the link was saved by someone else since you opened it; reload it before freezing a revision', { currentVersion: locked.version })
     const frozen = freezeAnalysis(requireCompleteSpec(locked.spec, 'frozen into a revision'), body.pullup)
     const project = await Project.findByPk(locked.projectId, { transaction, rejectOnEmpty: true })
+    const { policy } = await readPolicy(locked.teamId)
     const number = (await latestNumber(locked.id, transaction)) + 1
     // the captures that back this revision: a snapshot, so a later deletion leaves the report as it was
     const done = await Capture.findAll({
@@ -103,6 +105,7 @@ export async function freezeRevision(link: Link, userId: number, body: FreezeBod
         assumptions: frozen.assumptions,
         pullup: frozen.pullup ? JSON.parse(JSON.stringify(frozen.pullup)) : null,
         captures: JSON.parse(JSON.stringify(captures)),
+        thresholds: { guardBandUi: policy.guardBandUi, thinSlackFraction: policy.thinSlackFraction },
         authorId: userId,
       },
       { transaction },
@@ -243,7 +246,7 @@ export async function reviewQueue(userId: number) {
   if (!ms.length) return []
   const revs = await ReportRevision.findAll({
     where: { teamId: { [Op.in]: ms.map((m) => m.teamId) }, state: 'submitted', authorId: { [Op.or]: [{ [Op.ne]: userId }, { [Op.is]: null }] } },
-    attributes: { exclude: ['input', 'result', 'pullup', 'assumptions', 'captures'] },
+    attributes: { exclude: ['input', 'result', 'pullup', 'assumptions', 'captures', 'thresholds'] },
     include: people,
     order: [['submittedAt', 'ASC']],
   })
@@ -254,7 +257,7 @@ export async function reviewQueue(userId: number) {
 export function linkRevisions(linkId: number) {
   return ReportRevision.findAll({
     where: { linkId },
-    attributes: { exclude: ['input', 'result', 'pullup', 'assumptions', 'captures'] },
+    attributes: { exclude: ['input', 'result', 'pullup', 'assumptions', 'captures', 'thresholds'] },
     include: people,
     order: [['number', 'DESC']],
   })

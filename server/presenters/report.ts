@@ -43,6 +43,7 @@ export function presentReport(r: ReportRevision, role: Role, userId: number, lat
     result: r.result,
     assumptions: r.assumptions,
     pullup: r.pullup,
+    thresholds: r.thresholds ?? null,
     captures: (r.captures ?? []).map((c) => ({ ...c, available: (r.liveCaptureIds ?? []).includes(c.id) })),
     decidedBy: person(r.decider),
     decisionNote: r.decisionNote ?? null,

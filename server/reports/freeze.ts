@@ -5,7 +5,7 @@
 import type { Link } from '../../shared/schemas/link'
 import type { FreezePullup } from '../../shared/schemas/report'
 import type { PullupChoice, ResultDifference } from '../../shared/types/report'
-import { analyzeLink, parseLink, sweepPullup, type LinkAnalysis } from '../timing'
+import { analyzeParsedLink, parseLink, sweepPullup, type LinkAnalysis } from '../timing'
 
 export interface FrozenAnalysis {
   input: Link
@@ -33,7 +33,7 @@ export function defaultPullup(link: Link): FreezePullup | null {
 /** Analyse a link and record everything a revision keeps. */
 export function freezeAnalysis(spec: unknown, pullup?: FreezePullup | null): FrozenAnalysis {
   const input = parseLink(spec)
-  const result = analyzeLink(input)
+  const result = analyzeParsedLink(input)
   const options = pullup === undefined ? defaultPullup(input) : pullup
   let choice: PullupChoice | null = null
   if (options) {
@@ -96,7 +96,7 @@ export function diffResults(stored: unknown, recomputed: unknown, limit = 200): 
 
 /** Recompute a stored revision from its stored input with today's engine. */
 export function recomputeRevision(storedInput: unknown, storedResult: LinkAnalysis) {
-  const result = analyzeLink(parseLink(storedInput))
+  const result = analyzeParsedLink(parseLink(storedInput))
   // JSON round trip, as the stored result went through JSONB (undefined keys dropped)
   const recomputed = JSON.parse(JSON.stringify(result)) as LinkAnalysis
   const { differences, count } = diffResults(storedResult, recomputed)

@@ -10,6 +10,7 @@ import { EngineInputError } from './errors'
 import { phototransistorAssumptions, type CouplerModelInfo } from './phototransistor'
 import { analyzeSpi, type SpiResult } from './spi'
 import type { ChainResult, Corners, Warning } from './types'
+import { uartTimeline } from './timeline'
 import { analyzeUartChannel, type ReceiverEnd, type TransmitterEnd, type UartChannelResult } from './uart'
 import { ENGINE_VERSION } from './version'
 import type { Verdict, ChannelResult, UartResult, LinkAnalysis } from '../../shared/types/analysis'
@@ -34,7 +35,7 @@ const GENERAL_ASSUMPTIONS = [
   "A stage's own input switches at 50 % of the previous stage's swing unless the stage gives input thresholds; a wire and the driven direction of an rc stage pass the edge on without re-switching.",
   'A plain CMOS input switches somewhere between VIL and VIH, one threshold per part for both edges; a Schmitt input at VT+ rising and VT- falling, independently within their ranges.',
   'Transition times vary between their typical and maximum values; a digital stage without tr / tf is taken as an ideal (0 s) edge.',
-  "Stage delays vary independently between their min and max corners (worst case: interval sums); PWD max, where stated, bounds one part's |tPLH - tPHL|. The statistical spread treats min/max as +-3 sigma, root-sum-square over stages.",
+  "Stage delays vary independently between their min and max corners (worst case: interval sums); PWD max, where stated, bounds one part's |tPLH - tPHL|. The statistical spread treats min/max as ±3σ, root-sum-square over stages.",
   'Peak jitter adds over stages and random (rms) jitter adds as root-sum-square; every edge and the sync edge move independently.',
 ]
 
@@ -43,17 +44,25 @@ const UART_ASSUMPTIONS = [
   'Within one frame each edge direction has one fixed chain delay; only D_rise - D_fall and jitter move edges against the sync edge. Directions are logical, after the receiver\'s inversion.',
   'Every data value (all 2^n, with its parity) is considered; a boundary without a transition carries no risk; the receiver samples start, data, parity and the first stop bit only; back-to-back frames end the stop time at the next start edge, otherwise the idle line gives the last run no end (reported as null).',
   'A systematic asymmetry is never credited as a benefit: the PWD interval used for margins is widened to include zero.',
-  'Each clock is anywhere within its error interval (the stated +- bound, or the generator\'s quantisation error with the oscillator tolerance on top; a generator without tolerancePpm takes errorPpm as its tolerance and a generator without fractionBits has an integer divisor). The maximum baud and the rate sweep hold the error fractions found at the configured rate; the standard-rates table recomputes each generator at each rate.',
+  'Each clock is anywhere within its error interval (the stated ± bound, or the generator\'s quantisation error with the oscillator tolerance on top; a generator without tolerancePpm takes errorPpm as its tolerance and a generator without fractionBits has an integer divisor). The maximum baud and the rate sweep hold the error fractions found at the configured rate; the standard-rates table recomputes each generator at each rate.',
   'The clock tolerance reports the incoming-rate range, relative to the receiver\'s own rate, that meets the required margin with the link\'s distortion and sampler, the configured clock errors set aside.',
-  'The statistical view replaces the worst-case PWD interval by its nominal value +- 3 sigma (root-sum-square over stages, each min/max taken as +-3 sigma), kept within the interval.',
-  'The error-probability estimate applies the Gaussian tail of the random jitter (sqrt 2 times the edge rms, the sync edge moving too) beyond each worst-case margin; total jitter is dual-Dirac, TJ = DJ + 2 Q(BER) RJ with Q(BER) = Phi^-1(1 - BER) and DJ twice the peak jitter.',
+  'The statistical view replaces the worst-case PWD interval by its nominal value ±3σ (root-sum-square over stages, each min/max taken as ±3σ), kept within the interval.',
+  'The error-probability estimate applies the Gaussian tail of the random jitter (√2 times the edge rms, the sync edge moving too) beyond each worst-case margin; total jitter is dual-Dirac, TJ = DJ + 2 Q(BER) RJ with Q(BER) = Phi^-1(1 - BER) and DJ twice the peak jitter.',
   'A baud generator whose quantisation error exceeds 1 % is flagged (a common firmware rule of thumb).',
   'The maximum-baud search is exact (each margin in UI falls linearly with baud) up to a cap of the schema\'s 100 Mbaud limit or what each baud generator reaches with divisor 1.',
 ]
 
 /** Analyse one link. Accepts the schema's input form (defaults optional) or an already parsed link. */
 export function analyzeLink(input: LinkInput | Link): LinkAnalysis {
-  const link = parseLink(input)
+  return analyzeParsedLink(parseLink(input))
+}
+
+/**
+ * The analysis of a link the schema has already read (a route's validated body, a stored
+ * spec checked for completeness, a sweep's variant of a parsed link): the same analysis
+ * without parsing the link a second time.
+ */
+export function analyzeParsedLink(link: Link): LinkAnalysis {
   const warnings: Warning[] = []
   const assumptions = [...GENERAL_ASSUMPTIONS]
 
@@ -133,7 +142,7 @@ export function analyzeLink(input: LinkInput | Link): LinkAnalysis {
         path: ['uart'],
       })
       warnings.push(...r.warnings)
-      return r
+      return { ...r, timeline: uartTimeline(r, channels[ci]!, ch.receiver.invert ?? false) }
     })
     // the worst direction: one without a margin first, else the smallest margin
     let worst = byChannel[0]!

@@ -2,7 +2,7 @@
  * The timing engine's public entry points (issue 3). Pure TypeScript: relative
  * imports only, loadable by plain Node tooling.
  */
-export { analyzeLink, parseLink } from './analyze'
+export { analyzeLink, analyzeParsedLink, parseLink } from './analyze'
 export type { LinkAnalysis, ChannelResult, UartResult, Verdict } from './analyze'
 export { analyzeChain } from './chain'
 export type { ChainAnalysis, StageContribution } from './chain'

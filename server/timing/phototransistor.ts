@@ -95,7 +95,7 @@ export function phototransistorAssumptions(): string[] {
   const pct = Math.round(TYPICAL_SPREAD * 100)
   return [
     'Phototransistor switching times come from a charge-control model of the output transistor (storage time constant, Miller capacitance hFE x C_CB, LED and photodiode lag, turn-on charge) calibrated from the stage\'s characterisation points and evaluated at the stage\'s own pull-up, LED current, load capacitance and base-emitter resistor.',
-    `Phototransistor delay corners are typ -/+ partSkew/2 when partSkew is given, else typ -/+ ${pct} %; transition max = typ + ${pct} %; the corners also cover every CTR hypothesis, and outside the characterised range the slow corners are held at the range's nearest edge.`,
+    `Phototransistor delay corners are typ ∓ partSkew/2 when partSkew is given, else typ ∓ ${pct} %; transition max = typ + ${pct} %; the corners also cover every CTR hypothesis, and outside the characterised range the slow corners are held at the range's nearest edge.`,
     'The load capacitance adds to the output node\'s capacitance in the model (RL x C on both edges\' time constant) and is not limited to the characterised loads; only a load lighter than every point\'s holds the slow corners.',
     `A characterisation point without its own conditions is taken at the stage's CTR test current (else ${formatEng(POINT_DEFAULT_LED_CURRENT, 'A')}), an unloaded output (${formatEng(POINT_DEFAULT_LOAD_CAP, 'F')}), the stage's supply and an open base.`,
     `Static check: CTR is the stated minimum times the temperature and end-of-life derating, less hFE x VBE / RBE (VBE ${VBE_HIGH} V) where a base-emitter resistor is fitted; the LED current is (drive - VF - the driver's own drop) / R_LED.`,

@@ -15,7 +15,7 @@
  * sums in the trial loop.
  */
 import type { Link, LinkSpec, LinkInput } from '../../shared/schemas/link'
-import { analyzeLink, parseLink } from './analyze'
+import { analyzeParsedLink, parseLink } from './analyze'
 import { analyzeChain } from './chain'
 import { offsetFactor, thresholdFraction, type Direction } from './edges'
 import { EngineInputError } from './errors'
@@ -245,7 +245,7 @@ export function spreadStudy(input: LinkInput | Link, options: SpreadStudyOptions
   if (link.protocol !== 'uart' || !link.uart)
     throw new EngineInputError(['protocol'], 'the spread study covers UART links (clocks, detection latency and per-bit margins); SPI links are judged by their worst-case slacks')
 
-  const analysis = analyzeLink(link)
+  const analysis = analyzeParsedLink(link)
   const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)
   const dirs = uartIdx.map((ci, n) => buildDirection(link, ci, analysis.uart!.byChannel[n]!))
   const baud = link.uart.baud

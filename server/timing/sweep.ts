@@ -13,7 +13,7 @@ import { DigitalStage, type Link, type PhototransistorStage, type StageSpec, typ
 import { VBE_HIGH, driverDropOf, rbeDivertedCurrent } from '../../shared/utils/coupler'
 import { formatEng } from '../../shared/utils/units'
 import { GENERIC_LOGIC_OUTPUT_COUPLER, schmittBufferFor } from '../../shared/parts/generic'
-import { analyzeLink, notFunctionalReason, type Verdict } from './analyze'
+import { analyzeParsedLink, notFunctionalReason, type Verdict } from './analyze'
 import { analyzeChain, type ChainAnalysis } from './chain'
 import { EngineInputError } from './errors'
 import { nearestNotAbove, seriesValues, type SeriesName } from './eseries'
@@ -130,11 +130,11 @@ function checkOptions(link: Link, options: PullupSweepOptions) {
  * One full analysis at the target baud gives everything a row does not change: the swept
  * direction's sampler, clock error bounds and search cap, and the other directions'
  * results. Each row then re-runs only the swept channel's chain and the closed-form
- * margin and maximum baud of its direction (the functions analyzeLink uses).
+ * margin and maximum baud of its direction (the functions analyzeParsedLink uses).
  */
 function sweepContext(link: Link, ci: number, stageIndex: number, base: PhototransistorStage, targetBaud: number): SweepContext {
   const uart = { ...link.uart!, baud: targetBaud }
-  const baseAnalysis = analyzeLink({ ...link, uart })
+  const baseAnalysis = analyzeParsedLink({ ...link, uart })
   const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)
   const direction = uartIdx.indexOf(ci)
   const byChannel = baseAnalysis.uart?.byChannel ?? []

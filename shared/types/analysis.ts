@@ -368,7 +368,49 @@ export interface UartChannelResult {
    * interval, at the configured clocks and jitter; null without pwdTyp / pwdSigma.
    */
   statistical: { pwd: { min: number; max: number }; worstMarginUi: number } | null
+  /** the bit timeline's geometry in time (the chart only places it); set by analyzeLink */
+  timeline?: UartTimeline
   warnings: Warning[]
+}
+
+/** How one lane of the bit timeline moves the ideal edges: delays from the driving pin's 50 % crossing, seconds. */
+export interface TimelineEdges {
+  rise: number
+  fall: number
+  /** corner range of each delay (drawn as a band); null when the lane shows typical values only */
+  riseRange: { min: number; max: number } | null
+  fallRange: { min: number; max: number } | null
+  /** 10-90 % transition times, seconds */
+  tr: number
+  tf: number
+  riseShape: EdgeShape
+  fallShape: EdgeShape
+}
+
+/** One lane: the sent frame, the output of a stage, the receiving pin, or what the UART sees after its own inversion. */
+export interface TimelineLane {
+  kind: 'sent' | 'stage' | 'received' | 'uart'
+  /** the stage's name (kind 'stage') */
+  stage: string | null
+  /** the lane's level is the opposite of the logical frame */
+  inverted: boolean
+  edges: TimelineEdges
+}
+
+/**
+ * The bit timeline in time (timing-model.md section 2): every rule is the engine's (frame
+ * and parity, the delays through each stage, the receiver's inversion), so a chart only
+ * places these numbers. The sampling instants and valid windows are the bits' own
+ * (UartBitResult.samples, validFrom, validTo, relative to `sync`).
+ */
+export interface UartTimeline {
+  /** labels of the frame's cells, start bit to the last stop bit */
+  cells: string[]
+  /** per data value v, the logical level of cell j is bit j of levels[v] */
+  levels: number[]
+  /** arrival of the start edge at the UART (its logical fall), seconds after it left the driving pin */
+  sync: number
+  lanes: TimelineLane[]
 }
 
 

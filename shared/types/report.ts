@@ -9,6 +9,7 @@ import type { LinkAnalysis, PullupSweepResult } from './analysis'
 import type { Link } from '../schemas/link'
 import type { ReportState, CommentTarget } from '../schemas/report'
 import type { PersonRef } from './workspace'
+import type { ReadingThresholds } from '../report/vocabulary'
 
 export type { ReportState, CommentTarget }
 
@@ -146,6 +147,8 @@ export interface ReportDetailDto extends ReportSummaryDto {
   result: LinkAnalysis
   assumptions: string[]
   pullup: PullupChoice | null
+  /** the team's reading thresholds frozen with the revision; null on revisions frozen before them (read by the requirement alone) */
+  thresholds: ReadingThresholds | null
   /** the scope captures of the link whose extraction was done at freeze, oldest first */
   captures: ReportCaptureDto[]
   decidedBy: PersonRef | null

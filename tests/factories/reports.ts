@@ -3,6 +3,7 @@
  * analysis of the link, frozen as the server freezes it.
  */
 import type { LinkInput } from '../../shared/schemas/link'
+import { DEFAULT_TEAM_POLICY } from '../../shared/schemas/team'
 import type { ReportDetailDto } from '../../shared/types/report'
 import { freezeAnalysis } from '../../server/reports/freeze'
 
@@ -32,6 +33,7 @@ export function buildReportDetail(link: LinkInput, overrides: Partial<ReportDeta
     result: json.result,
     assumptions: json.assumptions,
     pullup: json.pullup,
+    thresholds: { guardBandUi: DEFAULT_TEAM_POLICY.guardBandUi, thinSlackFraction: DEFAULT_TEAM_POLICY.thinSlackFraction },
     captures: [],
     decidedBy: null,
     decisionNote: null,

@@ -41,3 +41,17 @@ export function extent(values: (number | null | undefined)[], pad = 0.05, includ
   const p = (hi - lo) * pad
   return [lo - p, hi + p]
 }
+
+/**
+ * A label in at most two lines of about `width` characters, broken between words; a longer
+ * one ends with an ellipsis (its full text goes in the element's title).
+ */
+export function wrapLabel(text: string, width = 20): string[] {
+  if (text.length <= width) return [text]
+  const words = text.split(' ')
+  let first = ''
+  while (words.length && (first ? `${first} ${words[0]}` : words[0]!).length <= width) first = first ? `${first} ${words.shift()}` : words.shift()!
+  if (!first) first = words.shift()!.slice(0, width - 1) + '…'
+  const rest = words.join(' ')
+  return rest ? [first, rest.length > width ? `${rest.slice(0, width - 1)}…` : rest] : [first]
+}

@@ -52,7 +52,14 @@ export interface RateSweepGeometry {
   currentX: number | null
   /** filled area where the curve is below zero (broken) */
   brokenPath: string
+  /** where the curve leaves the axis below its floor (−1 UI): from which rate, and its true lowest value */
+  floor: { y: number; fromX: number; lowest: number; lowestBaud: number } | null
+  /** the two rate labels, placed apart: each on the side of its line where it does not meet the other or the edge */
+  labels: { max: { x: number; anchor: 'start' | 'end' } | null; current: { x: number; anchor: 'start' | 'end' } | null }
 }
+
+/** The lowest margin the rate-sweep axis shows; lower values are marked with their true extreme. */
+export const SWEEP_FLOOR_UI = -1
 
 /** Rate sweep: worst margin (UI) against baud on a log axis, with the required line and the maximum. */
 export function rateSweepGeometry(
@@ -68,7 +75,7 @@ export function rateSweepGeometry(
   if (xd[0] === xd[1]) xd[1] = xd[0] * 10
   const sx = scaleLog().domain(xd).range([area.x0, area.x1]).clamp(true)
   const yd = extent(rows.map((r) => r.marginUi), 0.08, [0, requiredUi])
-  yd[0] = Math.max(yd[0], -1)
+  yd[0] = Math.max(yd[0], SWEEP_FLOOR_UI)
   yd[1] = Math.min(Math.max(yd[1], requiredUi + 0.05), 0.6)
   const sy = scaleLinear().domain(yd).range([area.y0, area.y1]).clamp(true)
   const margin = seriesPath(rows.map((r) => ({ x: r.baud, y: r.marginUi })), sx, sy)
@@ -79,6 +86,22 @@ export function rateSweepGeometry(
     ? `${seriesPath(below, sx, sy).path}L${sx(below.at(-1)!.x)},${zeroY}L${sx(below[0]!.x)},${zeroY}Z`
     : ''
   const inX = (v: number | null) => (v !== null && v >= xd[0] && v <= xd[1] ? sx(v) : null)
+  const lowest = rows.reduce<{ baud: number; marginUi: number } | null>((m, r) => (!m || r.marginUi < m.marginUi ? r : m), null)
+  const first = rows.find((r) => r.marginUi < yd[0])
+  const floor = lowest && first && lowest.marginUi < yd[0] ? { y: sy(yd[0]), fromX: sx(first.baud), lowest: lowest.marginUi, lowestBaud: lowest.baud } : null
+  const maxX = inX(maxBaud)
+  const currentX = inX(currentBaud)
+  const LABEL = 96
+  const side = (x: number, preferEnd: boolean) => {
+    const end = (preferEnd && x - LABEL >= area.x0) || x + LABEL > area.x1
+    return { x: end ? x - 4 : x + 4, anchor: end ? ('end' as const) : ('start' as const) }
+  }
+  // close lines: the lower rate's label to the left of its line, the higher rate's to the right
+  const close = maxX !== null && currentX !== null && Math.abs(maxX - currentX) < LABEL
+  const labels = {
+    max: maxX === null ? null : side(maxX, close && maxX <= currentX!),
+    current: currentX === null ? null : side(currentX, close && currentX < maxX!),
+  }
   return {
     area,
     xTicks: logTicks(xd, [area.x0, area.x1], 6, 'Bd'),
@@ -86,9 +109,11 @@ export function rateSweepGeometry(
     margin,
     requiredY: sy(requiredUi),
     zeroY,
-    maxX: inX(maxBaud),
-    currentX: inX(currentBaud),
+    maxX,
+    currentX,
     brokenPath,
+    floor,
+    labels,
   }
 }
 

@@ -7,7 +7,8 @@
 import { scaleLinear } from 'd3-scale'
 import { line } from 'd3-shape'
 import { linearTicks, type Tick } from './axis'
-import { bitState, edgePoints, type BitState, type Shape } from './timeline'
+import { marginState } from '#shared/report/vocabulary'
+import { edgePoints, type BitState, type Shape } from './timeline'
 
 interface ChannelTiming {
   rise: { min: number; typ: number; max: number }
@@ -130,7 +131,7 @@ export function spiTimelineGeometry(input: SpiTimelineInput): SpiTimelineGeometr
     ...sampleIdx.map((i) => ({ name: 'controller samples MISO', x: sx(sclkEdges[i]!.t), y0: laneY(0), y1: laneY(5) + LANE })),
   ]
   const checksY = TOP + lanes.length * (LANE + GAP) + 4
-  const checks = input.checks.map((c) => ({ id: c.id, slack: c.slack, state: bitState(c.slack, c.required) }))
+  const checks = input.checks.map((c) => ({ id: c.id, slack: c.slack, state: marginState(c.slack, c.required) }))
   const checkWidth = (x1 - x0) / Math.max(1, checks.length)
   return {
     width: input.width,

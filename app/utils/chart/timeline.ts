@@ -1,11 +1,13 @@
 /**
- * Geometry of the bit timeline (UART): the transmitted frame, the waveform after each
- * stage (edges moved by their delays and slowed by their transition times, ramp or RC
- * shaped), the receiver's sampling band, each bit's valid window and its margin.
- * Every time comes from the server's analysis; this module only places it on the page.
+ * Placement of the bit timeline (UART) on the page: the engine's timeline (frame cells and
+ * levels, lanes with their delays, corner bands and edge shapes; UartChannelResult.timeline)
+ * and its per-bit windows and samples become pixels. No timing rule lives here: the frame,
+ * the parity, the delays through each stage and the receiver's inversion are the engine's.
  */
 import { scaleLinear } from 'd3-scale'
 import { line } from 'd3-shape'
+import type { TimelineLane } from '#shared/types/analysis'
+import { uartMarginState, type MarginState, type ReadingThresholds } from '#shared/report/vocabulary'
 import { linearTicks, type Tick } from './axis'
 
 const LN2 = Math.LN2
@@ -13,25 +15,14 @@ const LN9 = Math.log(9)
 
 export type Shape = 'ramp' | 'exponential'
 
-/** How one lane moves the ideal edges: delays from the driving pin's 50 % crossing, seconds. */
-export interface LaneEdges {
-  rise: number
-  fall: number
-  /** corner range of each delay, drawn as a band (optional) */
-  riseRange?: { min: number; max: number }
-  fallRange?: { min: number; max: number }
-  /** 10-90 % transition times, seconds */
-  tr: number
-  tf: number
-  riseShape: Shape
-  fallShape: Shape
-}
-
+/** A lane as the chart draws it: its name and the engine's lane. */
 export interface LaneInput {
   name: string
-  /** the lane's level is the opposite of the logical frame */
   inverted: boolean
-  edges: LaneEdges
+  edges: Pick<TimelineLane['edges'], 'rise' | 'fall' | 'tr' | 'tf' | 'riseShape' | 'fallShape'> & {
+    riseRange?: { min: number; max: number } | null
+    fallRange?: { min: number; max: number } | null
+  }
 }
 
 export interface TimelineBit {
@@ -59,6 +50,8 @@ export interface UartTimelineInput {
   sync: number
   bits: TimelineBit[]
   requiredUi: number
+  /** the team's reading thresholds (guard band) */
+  thresholds?: ReadingThresholds
   width: number
   /** show only this bit (index), with a little of its neighbours */
   zoomBit?: number | null
@@ -71,7 +64,7 @@ export interface LaneGeometry {
   bands: { x: number; width: number }[]
 }
 
-export type BitState = 'healthy' | 'thin' | 'broken'
+export type BitState = MarginState
 
 export interface WindowGeometry {
   index: number
@@ -106,27 +99,9 @@ export interface UartTimelineGeometry {
 
 export const TIMELINE_LAYOUT = { left: 132, right: 16, top: 26, laneHeight: 34, laneGap: 16, windowHeight: 64, axis: 28 }
 
-/** The logical levels of a frame: start 0, data LSB first, parity, stop bits 1. */
-export function frameLevels(value: number, dataBits: number, parity: 'none' | 'even' | 'odd' | 'mark' | 'space', stopBits: number): number[] {
-  const out = [0]
-  let ones = 0
-  for (let i = 0; i < dataBits; i++) {
-    const b = (value >> i) & 1
-    ones += b
-    out.push(b)
-  }
-  if (parity !== 'none') out.push(parity === 'mark' ? 1 : parity === 'space' ? 0 : parity === 'even' ? ones & 1 : 1 - (ones & 1))
-  for (let i = 0; i < Math.ceil(stopBits); i++) out.push(1)
-  return out
-}
-
-/** Labels of the cells: start, d0.., p, stop. */
-export function frameLabels(dataBits: number, parity: string, stopBits: number): string[] {
-  const l = ['start']
-  for (let i = 0; i < dataBits; i++) l.push(`d${i}`)
-  if (parity !== 'none') l.push('parity')
-  for (let i = 0; i < Math.ceil(stopBits); i++) l.push(i === 0 ? 'stop' : `stop ${i + 1}`)
-  return l
+/** The logical levels of the frame's cells for one data value, from the engine's level mask (bit j: cell j). */
+export function levelsOf(mask: number, cells: number): number[] {
+  return Array.from({ length: cells }, (_, j) => Math.floor(mask / 2 ** j) % 2)
 }
 
 /** Points (t, v) of one edge centred (50 %) at c, rising or falling, v in 0..1, until `until`. */
@@ -194,8 +169,22 @@ function laneBands(levels: number[], bitTime: number, lane: LaneInput): { t0: nu
   return out
 }
 
-export function bitState(marginUi: number, requiredUi: number): BitState {
-  return marginUi < 0 ? 'broken' : marginUi < requiredUi ? 'thin' : 'healthy'
+/**
+ * The part of a waveform within [t0, t1]: the level at each end interpolated (a lane holds
+ * its level between edges), so a zoomed view shows levels and steps, never a straight line
+ * drawn between points outside the window.
+ */
+export function clipPoints(pts: [number, number][], t0: number, t1: number): [number, number][] {
+  const at = (t: number): number => {
+    if (t <= pts[0]![0]) return pts[0]![1]
+    for (let i = 1; i < pts.length; i++) {
+      const [xa, ya] = pts[i - 1]!
+      const [xb, yb] = pts[i]!
+      if (t <= xb) return xb === xa ? yb : ya + ((yb - ya) * (t - xa)) / (xb - xa)
+    }
+    return pts[pts.length - 1]![1]
+  }
+  return [[t0, at(t0)], ...pts.filter((p) => p[0] > t0 && p[0] < t1), [t1, at(t1)]]
 }
 
 export function uartTimelineGeometry(input: UartTimelineInput): UartTimelineGeometry {
@@ -222,14 +211,9 @@ export function uartTimelineGeometry(input: UartTimelineInput): UartTimelineGeom
 
   const lanes: LaneGeometry[] = input.lanes.map((lane, i) => {
     const y = L.top + i * (L.laneHeight + L.laneGap)
-    const pts = lanePoints(levels, T, lane, domain[0], domain[1])
-      .filter((p, idx, arr) => {
-        // drop points far outside the view (keeps zoomed paths small), keep neighbours for continuity
-        const prev = arr[idx - 1]
-        const next = arr[idx + 1]
-        return (p[0] >= domain[0] && p[0] <= domain[1]) || (next && next[0] >= domain[0] && p[0] < domain[0]) || (prev && prev[0] <= domain[1] && p[0] > domain[1])
-      })
-      .map((p) => [clampX(sx(p[0])), y + L.laneHeight - p[1] * L.laneHeight] as [number, number])
+    const pts = clipPoints(lanePoints(levels, T, lane, domain[0], domain[1]), domain[0], domain[1]).map(
+      (p) => [clampX(sx(p[0])), y + L.laneHeight - p[1] * L.laneHeight] as [number, number],
+    )
     const bands = laneBands(levels, T, lane)
       .map((b) => ({ x: clampX(sx(b.t0)), width: clampX(sx(b.t1)) - clampX(sx(b.t0)) }))
       .filter((b) => b.width > 0)
@@ -253,7 +237,7 @@ export function uartTimelineGeometry(input: UartTimelineInput): UartTimelineGeom
     return {
       index: b.index,
       label: b.label,
-      state: bitState(b.marginUi, input.requiredUi),
+      state: uartMarginState(b.marginUi, input.requiredUi, input.thresholds),
       marginUi: b.marginUi,
       x0: Math.min(wx0, wx1),
       x1: Math.max(wx0, wx1),

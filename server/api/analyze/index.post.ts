@@ -1,9 +1,9 @@
 import { LinkSpec } from '../../../shared/schemas/link'
-import { analyzeLink } from '../../timing'
+import { analyzeParsedLink } from '../../timing'
 
 /** Analyse an unsaved link (the body is a link): signed in, any role; reads no stored data. */
 export default defineApiHandler(async (event) => {
   await requireUser(event)
   const link = await validBody(event, LinkSpec)
-  return analyzeLink(link)
+  return analyzeParsedLink(link)
 })

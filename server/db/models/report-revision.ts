@@ -1,3 +1,4 @@
+import type { ReadingThresholds } from '../../../shared/report/vocabulary'
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
 import type { Link as LinkSpec } from '../../../shared/schemas/link'
 import type { ReportState } from '../../../shared/schemas/report'
@@ -30,6 +31,8 @@ export class ReportRevision extends Model<InferAttributes<ReportRevision>, Infer
   declare engineVersion: string
   declare assumptions: string[]
   declare pullup: PullupChoice | null
+  /** the team's reading thresholds at freeze (guard band, thin slack); null on revisions frozen before they existed */
+  declare thresholds: CreationOptional<ReadingThresholds | null>
   /** the scope captures of the link whose extraction was done at freeze (frozen, like input and result) */
   declare captures: CreationOptional<FrozenCapture[]>
   declare state: CreationOptional<ReportState>
@@ -69,6 +72,7 @@ export class ReportRevision extends Model<InferAttributes<ReportRevision>, Infer
         engineVersion: { type: DataTypes.STRING(32), allowNull: false },
         assumptions: { type: DataTypes.JSONB, allowNull: false },
         pullup: { type: DataTypes.JSONB, allowNull: true },
+        thresholds: { type: DataTypes.JSONB, allowNull: true },
         captures: { type: DataTypes.JSONB, allowNull: false, defaultValue: [] },
         state: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'draft' },
         authorId: { type: DataTypes.INTEGER, allowNull: true },

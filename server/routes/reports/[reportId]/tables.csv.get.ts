@@ -10,7 +10,7 @@ export default defineApiHandler(async (event) => {
   const { reportId } = await validParams(event, idParams('reportId'))
   const { report } = await requireReport(event, reportId, 'report.read')
   const { table } = await validQuery(event, Query)
-  const csv = reportTableCsv(report.result, table, report.pullup?.sweep ?? null)
+  const csv = reportTableCsv(report.result, table, report.pullup?.sweep ?? null, report.thresholds ?? undefined)
   if (csv === null) throw new NotFoundError(`table '${table}' in this revision`)
   sendAs(event, 'text/csv; charset=utf-8', `${fileSlug(report.linkName)}-r${report.number}-${table}.csv`)
   return csv

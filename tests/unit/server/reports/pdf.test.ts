@@ -27,7 +27,7 @@ function pdfToText(pdf: Buffer, name: string) {
 describe('margin report PDF', () => {
   it('ships the fontsource files unchanged', () => {
     for (const f of Object.values(REPORT_FONT_FILES)) {
-      const pkg = f.startsWith('inter') ? '@fontsource/inter' : '@fontsource/jetbrains-mono'
+      const pkg = f.startsWith('inter') ? '@fontsource/inter' : f.startsWith('noto-sans-math') ? '@fontsource/noto-sans-math' : '@fontsource/jetbrains-mono'
       expect(readFileSync(path.resolve('server/assets/fonts', f)).equals(readFileSync(path.resolve('node_modules', pkg, 'files', f)))).toBe(true)
     }
   })
@@ -62,15 +62,24 @@ describe('margin report PDF', () => {
     expect(text).toContain('Bit timeline')
     expect(text).toContain('Rate sweep')
     expect(text).toContain('Pull-up choice')
-    expect(text).toMatch(/RL 4\.7 kohm/)
+    expect(text).toMatch(/RL 4\.7 kΩ/)
     expect(text).toContain('Safety caution')
     expect(text.replace(/\s+/g, ' ')).toContain('bench verification of every link is still required')
     expect(text).toContain('Rowan Reviewer')
     expect(text).toContain('2026-12-03 09:30 UTC')
     expect(text).toContain('Bit d0 of telemetry: d0 late side checked on the bench')
     expect(text).toContain(`engine ${report.engineVersion}`)
-    // no glyph fell outside the fonts' subsets
-    expect(text).not.toMatch(/[µΩ\uFFFD]/)
+    // units print as written (issue 17): µ, Ω and ± come from the shipped subsets, nothing is replaced
+    expect(text).toMatch(/\d µs/)
+    expect(text).toContain('±')
+    expect(text).not.toMatch(/\uFFFD|\d us\b|kohm|\+-/)
+    // page 1 carries the sign-off: state, reviewer, decision date, revision and engine
+    const page1 = execFileSync('pdftotext', ['-f', '1', '-l', '1', '-layout', path.join(dir, 'uart.pdf'), '-'], { encoding: 'utf8' })
+    expect(page1).toMatch(/State\s+signed off/)
+    expect(page1).toContain('Rowan Reviewer')
+    expect(page1).toMatch(/Signed off\s+2026-12-03 09:30 UTC by Rowan Reviewer/)
+    expect(page1).toMatch(/Revision\s+r1 of link version 1/)
+    expect(page1).toMatch(new RegExp(`Engine\\s+${report.engineVersion.replace(/\./g, '\\.')}`))
   })
 
   it('draws the SPI checks and honours Letter paper', async () => {
@@ -105,7 +114,7 @@ describe('margin report PDF', () => {
     expect(flat).toContain('bench-0412.csv (2,345,678 bytes), since deleted')
     expect(text).toContain(c.sha256)
     expect(flat).toContain('2026-12-01 15:20 UTC by Demo Engineer')
-    expect(flat).toContain('in 1 "TX pin (V)" -> out 2 "Coupler out (V)", inverting')
+    expect(flat).toContain('in 1 "TX pin (V)" → out 2 "Coupler out (V)", inverting')
     expect(flat).toMatch(/Applied to .* \(channel telemetry, stage 1\) as a characterisation point/)
     const eng = (v: number, digits = 4) => pdfText(formatEng(v, 's', { digits }))
     for (const [name, st] of [['tPLH', c.tPLH!], ['tPHL', c.tPHL!], ['tr (output)', c.output!.tr!], ['tf (output)', c.output!.tf!]] as const) {
@@ -114,9 +123,9 @@ describe('margin report PDF', () => {
       expect(row!.replace(/\s+/g, ' ')).toContain(`${st.count} ${eng(st.min)} ${eng(st.mean)} ${eng(st.max)} ${eng(st.sigma, 3)}`)
     }
     // the measured means are the synthetic path's delays
-    expect(eng(c.tPLH!.mean, 2)).toBe('22 us')
-    expect(eng(c.tPHL!.mean, 2)).toBe('3 us')
-    expect(text).not.toMatch(/[µΩ\uFFFD]/)
+    expect(eng(c.tPLH!.mean, 2)).toBe('22 µs')
+    expect(eng(c.tPHL!.mean, 2)).toBe('3 µs')
+    expect(text).not.toMatch(/\uFFFD/)
   })
 
   it('renders the timeline page to an image with ink on it', async () => {

@@ -1,15 +1,13 @@
 import { describe, expect, it } from 'vitest'
-import { bitState, edgePoints, frameLabels, frameLevels, lanePoints, uartTimelineGeometry, type LaneInput } from '../../../../../app/utils/chart/timeline'
+import { clipPoints, edgePoints, lanePoints, levelsOf, uartTimelineGeometry, type LaneInput } from '../../../../../app/utils/chart/timeline'
+import { uartMarginState } from '../../../../../shared/report/vocabulary'
 
 const ideal: LaneInput = { name: 'tx', inverted: false, edges: { rise: 0, fall: 0, tr: 0, tf: 0, riseShape: 'ramp', fallShape: 'ramp' } }
 
-describe('frameLevels and frameLabels', () => {
-  it('put start, data LSB first, parity and stop bits in order', () => {
-    expect(frameLevels(0x01, 8, 'none', 1)).toEqual([0, 1, 0, 0, 0, 0, 0, 0, 0, 1])
-    expect(frameLevels(0x03, 8, 'even', 2)).toEqual([0, 1, 1, 0, 0, 0, 0, 0, 0, 0, 1, 1])
-    expect(frameLevels(0x01, 7, 'odd', 1)).toEqual([0, 1, 0, 0, 0, 0, 0, 0, 0, 1])
-    expect(frameLevels(0, 5, 'mark', 1.5)).toEqual([0, 0, 0, 0, 0, 0, 1, 1, 1])
-    expect(frameLabels(8, 'even', 1)).toEqual(['start', 'd0', 'd1', 'd2', 'd3', 'd4', 'd5', 'd6', 'd7', 'parity', 'stop'])
+describe('levelsOf', () => {
+  it("reads the engine's level mask cell by cell (bit j: cell j)", () => {
+    expect(levelsOf(0b1000000010, 10)).toEqual([0, 1, 0, 0, 0, 0, 0, 0, 0, 1])
+    expect(levelsOf(0, 3)).toEqual([0, 0, 0])
   })
 })
 
@@ -83,9 +81,29 @@ describe('uartTimelineGeometry', () => {
     expect(z.domain[1]).toBeCloseTo(2.7 * T, 12)
   })
 
-  it('classifies margins against zero and the required margin', () => {
-    expect(bitState(-0.01, 0.1)).toBe('broken')
-    expect(bitState(0.05, 0.1)).toBe('thin')
-    expect(bitState(0.1, 0.1)).toBe('healthy')
+  it('classifies margins against zero and the required margin, and the guard band when the team sets one', () => {
+    expect(uartMarginState(-0.01, 0.1)).toBe('broken')
+    expect(uartMarginState(0.05, 0.1)).toBe('thin')
+    expect(uartMarginState(0.1, 0.1)).toBe('healthy')
+    expect(uartMarginState(0.12, 0.1, { guardBandUi: 0.05, thinSlackFraction: 0 })).toBe('thin')
+    expect(uartMarginState(0.16, 0.1, { guardBandUi: 0.05, thinSlackFraction: 0 })).toBe('healthy')
+  })
+
+  it('zoomed to one bit, a lane that holds its level across the view is drawn level, not as a ramp (issue 17)', () => {
+    const slow: LaneInput = { name: 'rx', inverted: false, edges: { rise: 0.2 * T, fall: 0.1 * T, tr: 0, tf: 0, riseShape: 'ramp', fallShape: 'ramp' } }
+    // start 0, d0..d7 = 1 (0xFF), stop 1: the lane is high from d0 on; zoomed to d3 it is one flat line
+    const levels = levelsOf(0b1111111110, 10)
+    const z = uartTimelineGeometry({ bitTime: T, frameBits: 10, levels, backToBack: false, lanes: [slow], sync: 0, bits, requiredUi: 0.1, width: 800, zoomBit: 4 })
+    const ys = [...z.lanes[0]!.path.matchAll(/[ML]([\d.]+),([\d.]+)/g)].map((m) => Number(m[2]))
+    expect(new Set(ys).size).toBe(1)
+    expect(ys[0]).toBe(z.lanes[0]!.y)
+  })
+})
+
+describe('clipPoints', () => {
+  it('interpolates the level at both ends of the view and keeps the points inside', () => {
+    const pts: [number, number][] = [[0, 0], [10, 0], [12, 1], [30, 1], [31, 0], [50, 0]]
+    expect(clipPoints(pts, 11, 20)).toEqual([[11, 0.5], [12, 1], [20, 1]])
+    expect(clipPoints(pts, 14, 20)).toEqual([[14, 1], [20, 1]])
   })
 })

@@ -1,0 +1,318 @@
+/**
+ * One renderer per section of the margin report PDF, in the order the report reads: title
+ * and sign-off, summary and caution, stages and settings, per-bit margins or SPI checks,
+ * rate sweep and standard rates, pull-up choice, captures, warnings, assumptions, review.
+ * Each draws the frozen revision through the shared layout; the words and table columns are
+ * the shared report vocabulary's.
+ */
+import { REPORT_STATE_LABEL } from '../../../shared/schemas/report'
+import type { ReportDetailDto } from '../../../shared/types/report'
+import type { SummaryStats } from '../../../shared/types/capture'
+import {
+  MARGIN_LABEL,
+  groupWarnings,
+  limitWords,
+  maxRateText,
+  spiSlackState,
+  uartMarginState,
+  type ReadingThresholds,
+} from '../../../shared/report/vocabulary'
+import { bitColumns, endClockWords, pullupColumns, spiCandidateColumns, spiCheckColumns, splitStandardRates, stageColumns, standardRateColumns } from '../../../shared/report/tables'
+import { SAFETY_CAUTION } from '../../../shared/utils/caution'
+import { formatEng, formatUi } from '../../../shared/utils/units'
+import { drawRateSweep, drawSlackBars, drawTimeline } from './charts'
+import { INK, MUTED, STATE_COLOUR, type Layout } from './layout'
+
+type Report = ReportDetailDto
+const eng = (v: number | null | undefined, unit: string, digits = 3) => formatEng(v, unit, { digits })
+/** An ISO instant as the report prints it: 2026-12-03 09:30 UTC. */
+export const when = (iso: string | null) => (iso ? `${iso.slice(0, 10)} ${iso.slice(11, 16)} UTC` : '–')
+const person = (p: { name: string } | null | undefined, none = '(former member)') => p?.name ?? none
+const thresholds = (r: Report): ReadingThresholds | undefined => r.thresholds ?? undefined
+
+/** The title and, on page 1, who signed what and when. */
+export function titleSection(L: Layout, r: Report) {
+  L.text('Bitslack margin report', { size: 9, colour: MUTED })
+  L.text(r.linkName, { size: 18, bold: true })
+  L.text(`${r.projectName} · revision ${r.label} · ${REPORT_STATE_LABEL[r.state]}`, { size: 10, colour: MUTED })
+  L.doc.moveDown(0.6)
+  L.keyValues(signOffRows(r).slice(0, 6))
+}
+
+/** The review's facts: state, author, reviewer, decision, revision, engine. */
+function signOffRows(r: Report): [string, string][] {
+  const decided: [string, string] =
+    r.state === 'returned'
+      ? ['Returned', `${when(r.decidedAt)} by ${person(r.decidedBy)}`]
+      : ['Signed off', r.state === 'signed-off' ? `${when(r.decidedAt)} by ${person(r.decidedBy)}` : 'not signed off']
+  return [
+    ['State', REPORT_STATE_LABEL[r.state]],
+    ['Reviewer', r.reviewer ? `${r.reviewer.name}${r.submittedAt ? `, asked ${when(r.submittedAt)}` : ''}` : 'not yet submitted'],
+    decided,
+    ['Frozen', `${when(r.createdAt)} by ${person(r.author)}`],
+    ['Revision', `${r.label} of link version ${r.linkVersion}, ${r.protocol.toUpperCase()}`],
+    ['Engine', r.engineVersion],
+    ...(r.decisionNote ? ([['Reviewer note', r.decisionNote]] as [string, string][]) : []),
+  ]
+}
+
+/** The verdict and the few numbers that decide it. */
+export function summarySection(L: Layout, r: Report) {
+  const { doc, left, width } = L
+  const a = r.result
+  L.heading('Summary')
+  const y = doc.y
+  const verdictColour = a.verdict === 'pass' ? STATE_COLOUR.healthy : a.verdict === 'marginal' ? STATE_COLOUR.thin : STATE_COLOUR.broken
+  doc.roundedRect(left, y, 92, 26, 3).fill(verdictColour)
+  L.write(a.verdict.toUpperCase(), 'textBold', { size: 13, colour: '#ffffff', width: 92, align: 'center' }, left, y + 6)
+  doc.y = y
+  L.keyValues([...uartSummary(r), ...spiSummary(r)], 86, left + 104, width - 104)
+  doc.moveDown(0.8)
+  L.box('Safety caution.', SAFETY_CAUTION, STATE_COLOUR.thin, '#fffbeb')
+}
+
+function uartSummary(r: Report): [string, string][] {
+  const uart = r.result.uart
+  if (!uart) return []
+  const wb = uart.worstBit === null ? undefined : uart.bits[uart.worstBit]
+  const state = uartMarginState(uart.worstMarginUi, uart.requiredMarginUi, thresholds(r))
+  return [
+    [
+      'Worst margin',
+      uart.worstMarginUi === null
+        ? `none: ${uart.noMarginReason}`
+        : `${formatUi(uart.worstMarginUi)} (${eng(wb?.margin, 's')}), required ${formatUi(uart.requiredMarginUi)}: ${MARGIN_LABEL[state]}`,
+    ],
+    ['Maximum baud', `${maxRateText(uart.maxBaud, uart.maxBaudCapped, 'Bd', 4)} (configured ${eng(uart.baud, 'Bd', 4)})`],
+    ...(wb ? ([['Limited by', `bit ${wb.label}, ${wb.side} side: ${limitWords(wb.limitedBy)}`]] as [string, string][]) : []),
+    ['Note', uart.maxBaudNote],
+  ]
+}
+
+function spiSummary(r: Report): [string, string][] {
+  const spi = r.result.spi
+  if (!spi) return []
+  const wc = spi.checks.find((c) => c.id === spi.worstCheck)
+  const capped = spi.maxSclkHz !== null && spi.limitingCheck === null
+  return [
+    [
+      'Worst slack',
+      spi.worstSlack === null
+        ? `none: ${spi.noSlackReason}`
+        : `${eng(spi.worstSlack, 's')} (${spi.worstCheck}), required ${eng(wc?.required ?? 0, 's')}: ${MARGIN_LABEL[spiSlackState(spi.worstSlack, wc?.required ?? 0, spi.halfPeriod, thresholds(r))]}`,
+    ],
+    ['Maximum SCLK', `${maxRateText(spi.maxSclkHz, capped, 'Hz', 4)} (configured ${eng(spi.sclkHz, 'Hz', 4)}, mode ${spi.mode})`],
+    ['Limited by', spi.limitingCheck ? `${spi.limitingCheck}: ${spi.checks.find((c) => c.id === spi.limitingCheck)?.description ?? ''}` : 'no check up to the SCLK limit'],
+    ['Round trip', `${eng(spi.roundTrip.min, 's')} to ${eng(spi.roundTrip.max, 's')}`],
+  ]
+}
+
+/** Each channel's stages as the engine read them, its chain delays and receiver. */
+export function stagesSection(L: Layout, r: Report) {
+  L.heading('Stages and settings')
+  for (const ch of r.result.channels) {
+    const spec = r.input.channels.find((c) => c.id === ch.id)
+    L.subheading(`Channel ${ch.id} (${ch.role})${spec?.label ? `: ${spec.label}` : ''}`)
+    L.table(stageColumns(), ch.stages)
+    const rx = spec?.receiver
+    L.keyValues([
+      ['Chain delay rise', `${eng(ch.rise.min, 's')} / ${eng(ch.rise.typ, 's')} / ${eng(ch.rise.max, 's')} (min / typ / max)`],
+      ['Chain delay fall', `${eng(ch.fall.min, 's')} / ${eng(ch.fall.typ, 's')} / ${eng(ch.fall.max, 's')}`],
+      ['PWD (rise − fall)', `${eng(ch.pwd.min, 's')} to ${eng(ch.pwd.max, 's')}, typ ${eng(ch.pwdTyp, 's')}`],
+      ['Received tr / tf', `${eng(ch.tr.max, 's')} / ${eng(ch.tf.max, 's')} max`],
+      ['Polarity', `${ch.polarity}${ch.functional ? '' : ' (the channel cannot carry data as set)'}`],
+      ...(rx
+        ? ([['Receiver', `VDD ${eng(rx.vdd, 'V')}, VIL ${eng(rx.vil, 'V')}, VIH ${eng(rx.vih, 'V')}${rx.schmitt ? ', Schmitt' : ''}${rx.invert ? ', inverted' : ''}`]] as [string, string][])
+        : []),
+    ])
+    L.doc.moveDown(0.5)
+  }
+}
+
+type ClockSpec = { errorPpm?: number; clockHz?: number; tolerancePpm?: number; fractionBits?: number }
+const clockWords = (c: ClockSpec) =>
+  c.clockHz !== undefined
+    ? `generator ${eng(c.clockHz, 'Hz', 4)}${c.fractionBits ? `, ${c.fractionBits} fraction bits` : ''}${c.tolerancePpm !== undefined ? `, ±${c.tolerancePpm} ppm` : ''}`
+    : `±${c.errorPpm} ppm`
+
+/** The protocol's settings as frozen. */
+export function settingsSection(L: Layout, r: Report) {
+  const u = r.input.uart
+  if (u) {
+    L.subheading('UART settings')
+    L.keyValues([
+      ['Baud', eng(u.baud, 'Bd', 4)],
+      ['Frame', `${u.dataBits} data, parity ${u.parity}, ${u.stopBits} stop${u.backToBack ? ', back to back' : ''}`],
+      ['Required margin', formatUi(u.requiredMarginUi)],
+      ...(r.thresholds && r.thresholds.guardBandUi > 0 ? ([['Healthy from', `${formatUi(u.requiredMarginUi + r.thresholds.guardBandUi)} (team guard band)`]] as [string, string][]) : []),
+      ['Transmitter clock', clockWords(u.tx)],
+      ['Receiver clock', clockWords(u.rx)],
+      ['Receiver sampler', `${u.rx.sampler}, ${u.rx.oversampling}×, vote ${u.rx.vote}${u.rx.sampleTicks ? `, ticks ${u.rx.sampleTicks.join(' ')}` : ''}`],
+    ])
+  }
+  const s = r.input.spi
+  if (s) {
+    L.subheading('SPI settings')
+    L.keyValues([
+      ['SCLK', `${eng(s.sclkHz, 'Hz', 4)}, CPOL ${s.cpol}, CPHA ${s.cpha}`],
+      ['Required slack', eng(s.requiredSlack, 's')],
+      ...(r.thresholds && r.thresholds.thinSlackFraction > 0 ? ([['Thin below', `${Math.round(r.thresholds.thinSlackFraction * 100)} % of T/2 (team policy)`]] as [string, string][]) : []),
+      ['Controller MISO', `setup ${eng(s.controller.misoSetup, 's')}, hold ${eng(s.controller.misoHold, 's')}${s.controller.delayedSampling ? ', delayed sampling' : ''}`],
+      ['Peripheral', `MOSI setup ${eng(s.peripheral.mosiSetup, 's')}, hold ${eng(s.peripheral.mosiHold, 's')}, clock to out ${eng(s.peripheral.clockToOut.min, 's')} to ${eng(s.peripheral.clockToOut.max, 's')}`],
+      ...s.packages.map((p, i) => [`Package ${i + 1}`, `${p.channels.join(', ')}: channel skew ${eng(p.channelSkew, 's')}`] as [string, string]),
+    ])
+  }
+}
+
+/** Per UART direction: the per-bit table and the bit timeline. */
+export function bitsSection(L: Layout, r: Report) {
+  const uart = r.result.uart
+  if (!uart) return
+  for (const ch of uart.byChannel) {
+    L.heading(`Per-bit margins: ${ch.channelId}`, true)
+    L.note(`At ${eng(ch.baud, 'Bd', 4)}, bit time ${eng(ch.bitTime, 's')}; margins are the worst over every data value.`)
+    L.doc.moveDown(0.3)
+    L.table(bitColumns(ch.requiredMarginUi, thresholds(r)), ch.bits)
+    L.ensure(200)
+    L.subheading('Bit timeline')
+    drawTimeline(L, ch, L.left, L.doc.y + 4, L.width, thresholds(r))
+    L.doc.x = L.left
+  }
+}
+
+/** The SPI checks as bars and a table, and the candidate clocks. */
+export function spiSection(L: Layout, r: Report) {
+  const spi = r.result.spi
+  if (!spi) return
+  L.heading('SPI checks', true)
+  L.note(`At SCLK ${eng(spi.sclkHz, 'Hz', 4)} (half period ${eng(spi.halfPeriod, 's')}); a check passes when its slack meets the required slack.`)
+  L.doc.moveDown(0.3)
+  L.table(spiCheckColumns(spi.halfPeriod, thresholds(r)), spi.checks)
+  L.ensure(150)
+  L.subheading('Slack per check')
+  drawSlackBars(L, spi.checks, spi.halfPeriod, L.left, L.doc.y + 4, L.width, thresholds(r))
+  L.doc.x = L.left
+  L.heading('SCLK candidates')
+  L.table(spiCandidateColumns(), spi.candidates)
+}
+
+/** The rate sweep chart and the standard rates with both ends' divisors. */
+export function ratesSection(L: Layout, r: Report) {
+  const uart = r.result.uart
+  if (!uart) return
+  L.heading('Rate sweep', true)
+  L.note(`Worst margin of ${uart.channelId} against baud (logarithmic); the dashed line is the required margin, the dot the configured rate.`)
+  drawRateSweep(L, uart, L.left, L.doc.y + 6, L.width, 190, thresholds(r))
+  L.doc.x = L.left
+  L.doc.moveDown(0.6)
+  const ends = {
+    tx: endClockWords(uart.clocks.tx, r.input.uart?.tx.clockHz),
+    rx: endClockWords(uart.clocks.rx, r.input.uart?.rx.clockHz),
+  }
+  const { shown, hidden } = splitStandardRates(uart.standardRates, uart.maxBaud)
+  const fastest = uart.standardRates.find((x) => x.baud === uart.fastestStandardRate)
+  L.text(fastest ? `Fastest standard rate that passes: ${eng(fastest.baud, 'Bd', 4)}.` : 'No standard rate passes.', { size: 8.5 })
+  L.doc.moveDown(0.2)
+  L.table(standardRateColumns(uart.requiredMarginUi, uart.fastestStandardRate, ends, thresholds(r)), shown, { caption: "Standard rates with the transmitter's and the receiver's baud-generator divisor and rate error" })
+  if (hidden.length) L.text(`Every standard rate above ${eng(shown.at(-1)?.baud ?? 0, 'Bd', 4)} fails (${hidden.length} more, margins below −1 UI); the CSV export lists them all.`, { size: 8, colour: STATE_COLOUR.broken })
+}
+
+/** The pull-up sweep frozen with the revision: this revision's row, the recommendation, faster rows. */
+export function pullupSection(L: Layout, r: Report) {
+  const p = r.pullup
+  if (!p) return
+  L.heading('Pull-up choice')
+  const rec = p.sweep.recommended !== null ? p.sweep.rows[p.sweep.recommended] : null
+  L.keyValues([
+    ['Stage', `channel ${p.sweep.channelId}, stage ${p.sweep.stageIndex + 1}`],
+    ['In this revision', `RL ${eng(p.rl, 'Ω')}, LED resistor ${p.rLed === null ? 'from the LED current' : eng(p.rLed, 'Ω')}`],
+    ['Recommended', rec ? `RL ${eng(rec.rl, 'Ω')}, LED resistor ${eng(rec.rLed, 'Ω')}, max ${eng(rec.maxBaud, 'Bd', 4)}` : 'no row meets the target within the ratings'],
+    ['Sweep', `${p.sweep.series}, target ${eng(p.sweep.targetBaud, 'Bd', 4)}, overdrive ${p.sweep.overdrive}`],
+  ])
+  const rows = p.sweep.rows
+  const picked = new Set<number>([...(p.chosenRow !== null ? [p.chosenRow] : []), ...(p.sweep.recommended !== null ? [p.sweep.recommended] : []), ...p.sweep.alternatives.slice(0, 3)])
+  const shown = rows.filter((_, i) => picked.has(i) || rows.length <= 16)
+  const role = (row: (typeof rows)[number]) => {
+    const i = rows.indexOf(row)
+    return [i === p.chosenRow ? 'this revision' : '', i === p.sweep.recommended ? 'recommended' : '', row.fasterAlternative ? 'faster' : ''].filter(Boolean).join(', ') || '–'
+  }
+  L.table(pullupColumns(p.sweep.requiredMarginUi, { rbe: (p.sweep.rbeValues?.length ?? 0) > 0, role, t: thresholds(r) }), shown)
+}
+
+/** The scope captures frozen with the revision, with their measured statistics. */
+export function capturesSection(L: Layout, r: Report) {
+  L.heading('Captures that back this revision')
+  if (!r.captures.length) {
+    L.text('No oscilloscope capture backs this revision: every number above is computed from the stage parameters.', { size: 8.5, colour: MUTED })
+    return
+  }
+  L.text('Measured on the bench and frozen with the revision: 50 % to 50 % delays from the input to the output channel, 10–90 % transition times of the output.', { size: 8.5, colour: MUTED })
+  L.doc.moveDown(0.3)
+  for (const c of r.captures) {
+    L.ensure(150)
+    L.subheading(`Capture ${c.id}: ${c.label || c.fileName}`)
+    L.keyValues(
+      [
+        ['File', `${c.fileName} (${c.size.toLocaleString('en')} bytes)${c.available ? '' : ', since deleted'}`],
+        ['SHA-256', c.sha256],
+        ['Uploaded', `${when(c.uploadedAt)} by ${person(c.uploadedBy)}`],
+        ['Channels', `${c.input ? `in ${c.input.number} "${c.input.name}"` : '–'}${c.output ? ` → out ${c.output.number} "${c.output.name}"` : ', not paired'}${c.inverting === null ? '' : c.inverting ? ', inverting' : ', non-inverting'}`],
+        ['Samples', `${c.sampleCount.toLocaleString('en')}${c.rl !== undefined ? `, taken at RL ${eng(c.rl, 'Ω')}` : ''}`],
+        ...(c.appliedTo
+          ? ([['Applied to', `${c.appliedTo.stageName} (channel ${c.appliedTo.channelId}, stage ${c.appliedTo.stageIndex + 1}) as ${c.appliedTo.as === 'typical' ? 'typical values and spread' : 'a characterisation point'}`]] as [string, string][])
+          : []),
+      ],
+      90,
+    )
+    const stats: { name: string; st: SummaryStats | null }[] = [
+      { name: 'tPLH', st: c.tPLH },
+      { name: 'tPHL', st: c.tPHL },
+      { name: 'tr (output)', st: c.output?.tr ?? null },
+      { name: 'tf (output)', st: c.output?.tf ?? null },
+    ]
+    L.table(
+      [
+        { key: 'q', label: 'Quantity', value: (x) => x.name, width: 80 },
+        { key: 'n', label: 'Count', numeric: true, value: (x) => x.st?.count ?? 0, width: 50 },
+        { key: 'min', label: 'Min', numeric: true, value: (x) => x.st?.min ?? null, text: (x) => eng(x.st?.min, 's', 4), width: 70 },
+        { key: 'mean', label: 'Mean', numeric: true, value: (x) => x.st?.mean ?? null, text: (x) => eng(x.st?.mean, 's', 4), width: 70 },
+        { key: 'max', label: 'Max', numeric: true, value: (x) => x.st?.max ?? null, text: (x) => eng(x.st?.max, 's', 4), width: 70 },
+        { key: 'sigma', label: 'σ', numeric: true, value: (x) => x.st?.sigma ?? null, text: (x) => eng(x.st?.sigma, 's', 3), width: 70 },
+      ],
+      stats,
+    )
+  }
+}
+
+/** The engine's warnings (each said once, with where it applies) and assumptions. */
+export function notesSection(L: Layout, r: Report) {
+  L.heading('Warnings')
+  const warnings = groupWarnings(r.result.warnings)
+  if (warnings.length) L.bullets(warnings.map((w) => `${w.words}: ${w.message}${w.where.length ? ` (${w.where.join('; ')})` : ''}`), STATE_COLOUR.thin)
+  else L.text('The engine raised no warning for this input.', { size: 8.5, colour: MUTED })
+  L.heading('Assumptions')
+  L.bullets(r.assumptions)
+}
+
+/** The review in full: every fact of page 1 and the comments. */
+export function reviewSection(L: Layout, r: Report) {
+  L.heading('Sign-off')
+  L.keyValues(signOffRows(r))
+  if (r.comments.length) {
+    L.doc.moveDown(0.4)
+    L.subheading('Comments')
+    L.bullets(r.comments.map((c) => `${commentTargetText(c.target, r.result)}: ${c.body} (${c.author?.name ?? 'former member'}, ${when(c.createdAt)})`), INK)
+  }
+}
+
+/** How a comment's target reads: "Report", "Bit d3 of telemetry", "Check miso-setup". */
+export function commentTargetText(t: Report['comments'][number]['target'], a?: Report['result']): string {
+  if (t.kind === 'report') return 'Report'
+  if (t.kind === 'check') return `Check ${t.id}`
+  if (t.kind === 'stage') {
+    const name = a?.channels.find((c) => c.id === t.channelId)?.stages[t.index]?.name
+    return `Stage ${t.index + 1} of ${t.channelId}${name ? ` (${name})` : ''}`
+  }
+  const label = a?.uart?.byChannel.find((c) => c.channelId === t.channelId)?.bits[t.index]?.label
+  return `Bit ${label ?? t.index} of ${t.channelId}`
+}
