@@ -214,6 +214,158 @@ function fmt(x: number): string {
   return Number(x.toPrecision(6)).toString()
 }
 
+/** The columns a capture's data rows are read by, once its layout is known. */
+interface DataSection {
+  layout: Layout
+  format: CaptureFormat
+  store: SampleStore
+  down: MinMaxDownsampler
+  timeIndex: number
+  voltIndex: number[]
+  timeScale: number
+  voltScale: number[]
+  names: string[]
+  row: Float64Array
+  mins: number[]
+  maxs: number[]
+}
+
+/**
+ * A capture read line by line: the first lines are kept until the layout is known (header,
+ * delimiter, decimal comma, columns), then every data row is checked and stored.
+ */
+class CaptureReader {
+  private readonly maxSamples: number
+  private readonly maxChannels: number
+  private readonly maxLineLength: number
+  private readonly maxHeaderLines: number
+  private readonly detectWindow: number
+  private carry = ''
+  private lineNo = 0
+  /** before the layout is known: the first lines, kept to detect it */
+  private headLines: string[] = []
+  private headFirstLine = 1
+  private prevT = -Infinity
+  data: DataSection | null = null
+
+  constructor(private readonly options: ParseOptions) {
+    this.maxSamples = options.maxSamples ?? 2_000_000
+    this.maxChannels = options.maxChannels ?? 8
+    this.maxLineLength = options.maxLineLength ?? 65536
+    this.maxHeaderLines = options.maxHeaderLines ?? 200
+    this.detectWindow = this.maxHeaderLines + 20
+  }
+
+  /** Detect the layout from the kept lines, describe the columns, and replay the kept data rows. */
+  startData() {
+    const l = detectLayout(this.headLines)
+    if (!l || l.dataIndex > this.maxHeaderLines) {
+      throw new CaptureFormatError(
+        null,
+        l ? `no samples in the first ${this.maxHeaderLines} lines` : 'no rows of numbers found: a capture needs a time column and at least one voltage column, separated by commas, tabs or semicolons',
+      )
+    }
+    const warnings: string[] = []
+    const cols = describeColumns(this.headLines, l, warnings)
+    if (cols.channels.length > this.maxChannels) throw new CaptureFormatError(this.headFirstLine + l.dataIndex, `${cols.channels.length} voltage columns; at most ${this.maxChannels} are accepted`)
+    const voltIndex = Array.from({ length: l.columnCount }, (_, i) => i).filter((i) => i !== cols.timeIndex)
+    this.data = {
+      layout: l,
+      format: {
+        delimiter: l.delimiter,
+        decimalComma: l.decimalComma,
+        firstDataLine: this.headFirstLine + l.dataIndex,
+        header: this.headLines.slice(0, l.dataIndex).filter((x) => x.trim() !== '').slice(0, 50).map((x) => x.slice(0, 200)),
+        time: cols.time,
+        channels: cols.channels,
+        warnings,
+      },
+      store: new SampleStore(voltIndex.length),
+      down: new MinMaxDownsampler(voltIndex.length, this.options.displayBuckets ?? 1000),
+      timeIndex: cols.timeIndex,
+      voltIndex,
+      timeScale: cols.time.scale,
+      voltScale: cols.channels.map((c) => c.scale),
+      names: cols.channels.map((c) => c.name),
+      row: new Float64Array(voltIndex.length),
+      mins: voltIndex.map(() => Infinity),
+      maxs: voltIndex.map(() => -Infinity),
+    }
+    // replay the buffered lines from the first sample on
+    const buffered = this.headLines.splice(0)
+    for (let i = l.dataIndex; i < buffered.length; i++) this.dataLine(buffered[i]!, this.headFirstLine + i)
+  }
+
+  /** One data row: every field a number, time increasing, within the sample limit. */
+  private dataLine(line: string, no: number) {
+    if (line.length === 0 || line.trim() === '') return
+    const d = this.data!
+    const l = d.layout
+    const f = fieldsOf(line, l.delimiter)
+    if (f.length !== l.columnCount) throw new CaptureFormatError(no, `expected ${l.columnCount} numbers, found ${f.length}`)
+    const t = toNumber(f[d.timeIndex]!, l.decimalComma) * d.timeScale
+    if (!Number.isFinite(t)) throw new CaptureFormatError(no, `column ${d.timeIndex + 1} ("${d.format.time.name}") is not a number: "${clean(f[d.timeIndex]!).slice(0, 40)}"`)
+    for (let c = 0; c < d.voltIndex.length; c++) {
+      const field = f[d.voltIndex[c]!]!
+      const v = toNumber(field, l.decimalComma) * d.voltScale[c]!
+      if (!Number.isFinite(v)) throw new CaptureFormatError(no, `column ${d.voltIndex[c]! + 1} ("${d.names[c]}") is not a number: "${clean(field).slice(0, 40)}"`)
+      d.row[c] = v
+    }
+    if (!(t > this.prevT)) throw new CaptureFormatError(no, `time ${fmt(t)} s is not after the previous sample's ${fmt(this.prevT)} s (time must increase)`)
+    this.prevT = t
+    const st = d.store
+    if (st.n >= this.maxSamples) throw new CaptureFormatError(no, `more than ${this.maxSamples} samples; shorten the record or split the capture`)
+    if (st.full) st.grow()
+    const k = st.n++
+    st.time[k] = t
+    for (let c = 0; c < d.row.length; c++) {
+      const v = d.row[c]!
+      st.volts[c]![k] = v
+      if (v < d.mins[c]!) d.mins[c] = v
+      if (v > d.maxs[c]!) d.maxs[c] = v
+    }
+    d.down.push(t, d.row)
+  }
+
+  /** A line: kept while the layout is unknown, else read as data. */
+  line(raw: string) {
+    this.lineNo++
+    const line = raw.charCodeAt(raw.length - 1) === 13 ? raw.slice(0, -1) : raw
+    if (line.length > this.maxLineLength) throw new CaptureFormatError(this.lineNo, `longer than ${this.maxLineLength} characters`)
+    if (this.data) this.dataLine(line, this.lineNo)
+    else {
+      if (this.headLines.length === 0) this.headFirstLine = this.lineNo
+      this.headLines.push(line)
+      if (this.headLines.length >= this.detectWindow) this.startData()
+    }
+  }
+
+  /** Decoded text: split into lines, the unfinished last one carried to the next chunk. */
+  text(text: string) {
+    const nul = text.indexOf('\0')
+    if (nul >= 0) throw new CaptureFormatError(this.lineNo + 1 + countNewlines(this.carry + text.slice(0, nul)), 'binary content (NUL byte)')
+    const s = this.carry + text
+    let from = 0
+    for (let nl = s.indexOf('\n', from); nl >= 0; nl = s.indexOf('\n', from)) {
+      this.line(s.slice(from, nl))
+      from = nl + 1
+    }
+    this.carry = s.slice(from)
+    if (this.carry.length > this.maxLineLength) throw new CaptureFormatError(this.lineNo + 1, `longer than ${this.maxLineLength} characters`)
+  }
+
+  /** The end of the input: the last line without a newline, and a layout even when the file was short. */
+  end() {
+    if (this.carry.length > 0) {
+      const last = this.carry
+      this.carry = ''
+      this.line(last)
+    }
+    if (!this.data) this.startData()
+    return this.data!
+  }
+}
+
 /**
  * Read a CSV/TSV oscilloscope export from a stream of bytes (a Node Readable, or any
  * async iterable of Uint8Array or string chunks). Throws CaptureFormatError, naming the
@@ -222,171 +374,51 @@ function fmt(x: number): string {
  * few or too many samples.
  */
 export async function parseCapture(source: AsyncIterable<Uint8Array | string> | Iterable<Uint8Array | string>, options: ParseOptions = {}): Promise<ParsedCapture> {
-  const maxSamples = options.maxSamples ?? 2_000_000
   const minSamples = options.minSamples ?? 16
-  const maxChannels = options.maxChannels ?? 8
-  const maxLineLength = options.maxLineLength ?? 65536
-  const maxHeaderLines = options.maxHeaderLines ?? 200
-  const detectWindow = maxHeaderLines + 20
-
   const decoder = new TextDecoder('utf-8')
   const encoder = new TextEncoder()
+  const reader = new CaptureReader(options)
+  // the first 512 bytes are sniffed (text, not binary) before anything is decoded
   let sniffed = false
   let headBytes = new Uint8Array(0)
   let bytes = 0
-  let carry = ''
-  let lineNo = 0
-
-  // before the layout is known: the first lines, kept to detect it
-  const headLines: string[] = []
-  let headFirstLine = 1
-  // after: the data section
-  let layout: Layout | null = null
-  let format: CaptureFormat | null = null
-  let store: SampleStore | null = null
-  let down: MinMaxDownsampler | null = null
-  let timeIndex = 0
-  let voltIndex: number[] = []
-  let timeScale = 1
-  let voltScale: number[] = []
-  let row = new Float64Array(0)
-  let prevT = -Infinity
-  let mins: number[] = []
-  let maxs: number[] = []
-  let names: string[] = []
-
-  const startData = () => {
-    const l = detectLayout(headLines)
-    if (!l || l.dataIndex > maxHeaderLines) {
-      throw new CaptureFormatError(null, l
-        ? `no samples in the first ${maxHeaderLines} lines`
-        : 'no rows of numbers found: a capture needs a time column and at least one voltage column, separated by commas, tabs or semicolons')
-    }
-    layout = l
-    const warnings: string[] = []
-    const cols = describeColumns(headLines, l, warnings)
-    if (cols.channels.length > maxChannels) throw new CaptureFormatError(headFirstLine + l.dataIndex, `${cols.channels.length} voltage columns; at most ${maxChannels} are accepted`)
-    format = {
-      delimiter: l.delimiter,
-      decimalComma: l.decimalComma,
-      firstDataLine: headFirstLine + l.dataIndex,
-      header: headLines.slice(0, l.dataIndex).filter((s) => s.trim() !== '').slice(0, 50).map((s) => s.slice(0, 200)),
-      time: cols.time,
-      channels: cols.channels,
-      warnings,
-    }
-    timeIndex = cols.timeIndex
-    voltIndex = Array.from({ length: l.columnCount }, (_, i) => i).filter((i) => i !== timeIndex)
-    timeScale = cols.time.scale
-    voltScale = cols.channels.map((c) => c.scale)
-    names = cols.channels.map((c) => c.name)
-    store = new SampleStore(voltIndex.length)
-    down = new MinMaxDownsampler(voltIndex.length, options.displayBuckets ?? 1000)
-    row = new Float64Array(voltIndex.length)
-    mins = voltIndex.map(() => Infinity)
-    maxs = voltIndex.map(() => -Infinity)
-    // replay the buffered lines from the first sample on
-    const buffered = headLines.splice(0)
-    for (let i = l.dataIndex; i < buffered.length; i++) dataLine(buffered[i]!, headFirstLine + i)
+  const sniffAndRead = (head: Uint8Array) => {
+    const verdict = sniffText(head.subarray(0, 4096))
+    if (!verdict.ok) throw new CaptureFormatError(null, verdict.reason)
+    reader.text(decoder.decode(head, { stream: true }))
   }
-
-  const dataLine = (raw: string, no: number) => {
-    const line = raw
-    if (line.length === 0 || line.trim() === '') return
-    const l = layout!
-    const f = fieldsOf(line, l.delimiter)
-    if (f.length !== l.columnCount) throw new CaptureFormatError(no, `expected ${l.columnCount} numbers, found ${f.length}`)
-    const t = toNumber(f[timeIndex]!, l.decimalComma) * timeScale
-    if (!Number.isFinite(t)) throw new CaptureFormatError(no, `column ${timeIndex + 1} ("${format!.time.name}") is not a number: "${clean(f[timeIndex]!).slice(0, 40)}"`)
-    for (let c = 0; c < voltIndex.length; c++) {
-      const s = f[voltIndex[c]!]!
-      const v = toNumber(s, l.decimalComma) * voltScale[c]!
-      if (!Number.isFinite(v)) throw new CaptureFormatError(no, `column ${voltIndex[c]! + 1} ("${names[c]}") is not a number: "${clean(s).slice(0, 40)}"`)
-      row[c] = v
-    }
-    if (!(t > prevT)) throw new CaptureFormatError(no, `time ${fmt(t)} s is not after the previous sample's ${fmt(prevT)} s (time must increase)`)
-    prevT = t
-    const st = store!
-    if (st.n >= maxSamples) throw new CaptureFormatError(no, `more than ${maxSamples} samples; shorten the record or split the capture`)
-    if (st.full) st.grow()
-    const k = st.n++
-    st.time[k] = t
-    for (let c = 0; c < row.length; c++) {
-      const v = row[c]!
-      st.volts[c]![k] = v
-      if (v < mins[c]!) mins[c] = v
-      if (v > maxs[c]!) maxs[c] = v
-    }
-    down!.push(t, row)
-  }
-
-  const onLine = (raw: string) => {
-    lineNo++
-    const line = raw.charCodeAt(raw.length - 1) === 13 ? raw.slice(0, -1) : raw
-    if (line.length > maxLineLength) throw new CaptureFormatError(lineNo, `longer than ${maxLineLength} characters`)
-    if (layout) dataLine(line, lineNo)
-    else {
-      if (headLines.length === 0) headFirstLine = lineNo
-      headLines.push(line)
-      if (headLines.length >= detectWindow) startData()
-    }
-  }
-
-  const onText = (text: string) => {
-    if (text.indexOf('\0') >= 0) throw new CaptureFormatError(lineNo + 1 + countNewlines(carry + text.slice(0, text.indexOf('\0'))), 'binary content (NUL byte)')
-    let s = carry + text
-    let from = 0
-    for (;;) {
-      const nl = s.indexOf('\n', from)
-      if (nl < 0) break
-      onLine(s.slice(from, nl))
-      from = nl + 1
-    }
-    carry = s.slice(from)
-    s = ''
-    if (carry.length > maxLineLength) throw new CaptureFormatError(lineNo + 1, `longer than ${maxLineLength} characters`)
-  }
-
   for await (const chunk of source) {
     const buf = typeof chunk === 'string' ? encoder.encode(chunk) : chunk
     bytes += buf.length
-    if (!sniffed) {
+    if (sniffed) reader.text(decoder.decode(buf, { stream: true }))
+    else {
       const joined = new Uint8Array(headBytes.length + buf.length)
       joined.set(headBytes)
       joined.set(buf, headBytes.length)
       headBytes = joined
       if (headBytes.length < 512) continue
       sniffed = true
-      const s = sniffText(headBytes.subarray(0, 4096))
-      if (!s.ok) throw new CaptureFormatError(null, s.reason)
-      onText(decoder.decode(headBytes, { stream: true }))
+      sniffAndRead(headBytes)
       headBytes = new Uint8Array(0)
-    } else onText(decoder.decode(buf, { stream: true }))
+    }
     options.onProgress?.(bytes)
   }
   if (!sniffed) {
-    const s = sniffText(headBytes)
-    if (!s.ok) throw new CaptureFormatError(null, s.reason)
-    onText(decoder.decode(headBytes, { stream: true }))
+    sniffAndRead(headBytes)
     options.onProgress?.(bytes)
   }
-  onText(decoder.decode())
-  if (carry.length > 0) {
-    const last = carry
-    carry = ''
-    onLine(last)
-  }
-  if (!layout) startData()
-  const st = store!
+  reader.text(decoder.decode())
+  const d = reader.end()
+  const st = d.store
   if (st.n < minSamples) throw new CaptureFormatError(null, `only ${st.n} samples; at least ${minSamples} are needed`)
   const { time, volts } = st.trimmed()
   return {
-    format: format!,
+    format: d.format,
     sampleCount: st.n,
     time,
     channels: volts,
-    ranges: mins.map((min, c) => ({ min, max: maxs[c]! })),
-    waveform: down!.result(names),
+    ranges: d.mins.map((min, c) => ({ min, max: d.maxs[c]! })),
+    waveform: d.down.result(d.names),
     bytes,
   }
 }

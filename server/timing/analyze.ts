@@ -64,12 +64,37 @@ export function analyzeLink(input: LinkInput | Link): LinkAnalysis {
  */
 export function analyzeParsedLink(link: Link): LinkAnalysis {
   const warnings: Warning[] = []
-  const assumptions = [...GENERAL_ASSUMPTIONS]
-
   const chains: ChainAnalysis[] = link.channels.map((ch, i) => analyzeChain(ch, { path: ['channels', i] }))
   const notFunctional = chains.map((c, i) => notFunctionalReason(c, link.channels[i]!))
   const functional = notFunctional.map((r) => r === null)
   for (const c of chains) warnings.push(...c.warnings)
+  const assumptions = linkAssumptions(link)
+  const channels = chains.map((c, i) => channelResult(c, functional[i]!))
+
+  let uart: UartResult | null = null
+  let spi: SpiResult | null = null
+  let verdict: Verdict = 'pass'
+  if (link.protocol === 'uart' && link.uart) {
+    uart = analyzeUart(link, chains, channels, notFunctional, assumptions)
+    for (const r of uart.byChannel) warnings.push(...r.warnings)
+    verdict = worseOf(uart.byChannel.map((r) => r.verdict))
+  }
+  if (link.protocol === 'spi' && link.spi) {
+    spi = analyzeSpi(link, chains, notFunctional)
+    warnings.push(...spi.warnings)
+    assumptions.push(...spi.assumptions)
+    verdict = spi.pass ? 'pass' : spi.worstSlack !== null && spi.worstSlack >= 0 ? 'marginal' : 'fail'
+  }
+  if (functional.some((f) => !f)) verdict = 'fail'
+
+  const result: LinkAnalysis = { engineVersion: ENGINE_VERSION, verdict, channels, uart, spi, assumptions, warnings: dedupeWarnings(warnings), input: link }
+  assertFinite(result)
+  return result
+}
+
+/** The assumptions every analysis of this link rests on: general, per stage kind, per stated part behaviour. */
+function linkAssumptions(link: Link): string[] {
+  const assumptions = [...GENERAL_ASSUMPTIONS]
   if (link.channels.some((ch) => ch.stages.some((s) => s.kind === 'phototransistor'))) assumptions.push(...phototransistorAssumptions())
   for (const ch of link.channels)
     for (const st of ch.stages)
@@ -77,8 +102,12 @@ export function analyzeParsedLink(link: Link): LinkAnalysis {
         assumptions.push(`Stage '${st.name}' (${ch.id}): when its input side loses supply, its output goes ${st.failsafe} (the part's default output state); a ${st.failsafe === 'high' ? 'UART line reads idle' : 'UART line reads a break'}.`)
   const noEdge = link.channels.flatMap((ch) => ch.stages.filter((s) => s.kind === 'digital' && (!s.tr || !s.tf)).map((s) => `'${s.name}' (${ch.id})`))
   if (noEdge.length) assumptions.push(`Stages without a stated tr or tf, taken as ideal edges: ${noEdge.join(', ')}.`)
+  return assumptions
+}
 
-  const channels: ChannelResult[] = chains.map((c, i) => ({
+/** A channel as the result reports it: the chain without its warnings, each stage as its corners. */
+function channelResult(c: ChainAnalysis, functional: boolean): ChannelResult {
+  return {
     id: c.id,
     role: c.role,
     rise: c.rise,
@@ -95,7 +124,7 @@ export function analyzeParsedLink(link: Link): LinkAnalysis {
     jitterPeak: c.jitterPeak,
     partSkew: c.partSkew,
     receiverTerm: c.receiverTerm,
-    functional: functional[i]!,
+    functional,
     stages: c.stages.map((s) => ({
       index: s.index,
       name: s.name,
@@ -110,68 +139,41 @@ export function analyzeParsedLink(link: Link): LinkAnalysis {
       ...(s.operating ? { operating: s.operating } : {}),
       ...(s.coupler ? { coupler: s.coupler } : {}),
     })),
-  }))
+  }
+}
 
-  let uart: UartResult | null = null
-  let spi: SpiResult | null = null
-  let verdict: Verdict = 'pass'
-
-  if (link.protocol === 'uart' && link.uart) {
-    assumptions.push(...UART_ASSUMPTIONS)
-    const u = link.uart
-    const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)
-    if (uartIdx.length > 1)
-      assumptions.push(
-        `The second uart channel ('${link.channels[uartIdx[1]!]!.id}') runs the other way: its transmitter is the end described by uart.rx and its receiver the end described by uart.tx, sampling with uart.rx's sampler, vote and sample point at uart.tx's oversampling (default ticks when that differs from uart.rx's).`,
-      )
-    const byChannel = uartIdx.map((ci, n) => {
-      const ends = n === 0 ? firstDirection(u) : secondDirection(u)
-      const ch = link.channels[ci]!
-      const chain = chains[ci]!
-      const r = analyzeUartChannel({
-        channelId: ch.id,
-        settings: u,
-        tx: ends.tx,
-        rx: ends.rx,
-        txKey: ends.txKey,
-        rxKey: ends.rxKey,
-        chain: { pwd: chain.pwd, jitterPeak: chain.jitterPeak, jitterRms: chain.jitterRms, pwdTyp: chain.pwdTyp, pwdSigma: chain.pwdSigma },
-        receiverInvert: ch.receiver.invert ?? false,
-        notFunctional: notFunctional[ci],
-        pulseLimit: pulseLimitOf(ch),
-        path: ['uart'],
-      })
-      warnings.push(...r.warnings)
-      return { ...r, timeline: uartTimeline(r, channels[ci]!, ch.receiver.invert ?? false) }
+/** Every UART direction (the second uart channel runs the other way), each with its timeline; the worst one leads. */
+function analyzeUart(link: Link, chains: ChainAnalysis[], channels: ChannelResult[], notFunctional: (string | null)[], assumptions: string[]): UartResult {
+  const u = link.uart!
+  assumptions.push(...UART_ASSUMPTIONS)
+  const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)
+  if (uartIdx.length > 1)
+    assumptions.push(
+      `The second uart channel ('${link.channels[uartIdx[1]!]!.id}') runs the other way: its transmitter is the end described by uart.rx and its receiver the end described by uart.tx, sampling with uart.rx's sampler, vote and sample point at uart.tx's oversampling (default ticks when that differs from uart.rx's).`,
+    )
+  const byChannel = uartIdx.map((ci, n) => {
+    const ends = n === 0 ? firstDirection(u) : secondDirection(u)
+    const ch = link.channels[ci]!
+    const chain = chains[ci]!
+    const r = analyzeUartChannel({
+      channelId: ch.id,
+      settings: u,
+      tx: ends.tx,
+      rx: ends.rx,
+      txKey: ends.txKey,
+      rxKey: ends.rxKey,
+      chain: { pwd: chain.pwd, jitterPeak: chain.jitterPeak, jitterRms: chain.jitterRms, pwdTyp: chain.pwdTyp, pwdSigma: chain.pwdSigma },
+      receiverInvert: ch.receiver.invert ?? false,
+      notFunctional: notFunctional[ci],
+      pulseLimit: pulseLimitOf(ch),
+      path: ['uart'],
     })
-    // the worst direction: one without a margin first, else the smallest margin
-    let worst = byChannel[0]!
-    for (const r of byChannel) if (rank(r) < rank(worst)) worst = r
-    uart = { ...worst, byChannel }
-    verdict = worseOf(byChannel.map((r) => r.verdict))
-  }
-
-  if (link.protocol === 'spi' && link.spi) {
-    spi = analyzeSpi(link, chains, notFunctional)
-    warnings.push(...spi.warnings)
-    assumptions.push(...spi.assumptions)
-    verdict = spi.pass ? 'pass' : spi.worstSlack !== null && spi.worstSlack >= 0 ? 'marginal' : 'fail'
-  }
-
-  if (functional.some((f) => !f)) verdict = 'fail'
-
-  const result: LinkAnalysis = {
-    engineVersion: ENGINE_VERSION,
-    verdict,
-    channels,
-    uart,
-    spi,
-    assumptions,
-    warnings: dedupeWarnings(warnings),
-    input: link,
-  }
-  assertFinite(result)
-  return result
+    return { ...r, timeline: uartTimeline(r, channels[ci]!, ch.receiver.invert ?? false) }
+  })
+  // the worst direction: one without a margin first, else the smallest margin
+  let worst = byChannel[0]!
+  for (const r of byChannel) if (rank(r) < rank(worst)) worst = r
+  return { ...worst, byChannel }
 }
 
 /** Why a channel cannot carry data at all, in words; null when it can. */

@@ -115,6 +115,97 @@ function decay(t: number, tau: number): number {
   return x > EXP_LIMIT ? 0 : Math.exp(-x)
 }
 
+/** What both edges share at one operating point: currents, time constants, the reachable swing. */
+interface EdgeTerms {
+  p: ChargeControlParams
+  op: CouplerOperatingPoint
+  swing: number
+  /** collector current of a saturated output, (VCC - VCE(sat)) / RL */
+  ic: number
+  /** typical available collector current, CTR_typ x I_F */
+  iav: number
+  /** collector current R_BE diverts at turn-on (VBE high) and at turn-off (VBE low) */
+  ix: number
+  ixOff: number
+  /** output time constant RL (C_Miller (1 + 1/hFE) + C_load), and the LED lag kept apart from it */
+  tau: number
+  tauL: number
+}
+
+/**
+ * Turn-on: a dead time while the base charge qOn arrives from the lagged photocurrent
+ * (R_BE takes about half of VBE / R_BE while VBE rises; the collector cannot conduct before
+ * the drive exceeds I_x), then the collector drop v(t) below VCC; 10 %, 50 % and 90 % of
+ * the swing the typical part reaches.
+ */
+function turnOn(e: EdgeTerms): { f10: number; tphl: number; f90: number; reach: number } {
+  const { p, op, iav, ix, tau, tauL } = e
+  const tStart = ix > 0 ? -tauL * Math.log(1 - ix / iav) : 0
+  const charge = (t: number) => iav * (t - tauL * (1 - decay(t, tauL))) - 0.5 * ix * t - p.qOn
+  const dCharge = (t: number) => iav * (1 - decay(t, tauL)) - 0.5 * ix
+  // guess: the lagged current's ramp (t << tauL), else its plateau
+  const ramp = Math.sqrt((2 * tauL * p.qOn) / iav)
+  const tDead = Math.max(tStart, p.qOn > 0 ? rootIncreasing(charge, dCharge, 0, ramp < tauL ? ramp : p.qOn / iav + tauL) : 0)
+  // tau v' = -v + RL (a - b e^(-t/tauL)), v(tDead) = 0
+  const a = op.rl * (iav - ix)
+  const bK = (op.rl * iav * tauL) / (tauL - tau)
+  const eD = decay(tDead, tauL)
+  const drop = (t: number) => a * (1 - decay(t - tDead, tau)) - bK * (decay(t, tauL) - eD * decay(t - tDead, tau))
+  const dDrop = (t: number) => {
+    const es = decay(t - tDead, tau)
+    return (a * es) / tau + bK * (decay(t, tauL) / tauL - (eD * es) / tau)
+  }
+  // the typical part may not reach the full swing: time its fractions of what it does reach
+  const reach = Math.min(e.swing, a)
+  const cross = (x: number, guess: number) => rootIncreasing((t) => drop(t) - x * reach, dDrop, tDead, guess)
+  // the first guess: the drive as a step through tau and tauL in series
+  const f10 = cross(0.1, tDead + (tau + tauL) * -Math.log(1 - (0.1 * reach) / a))
+  const tphl = cross(0.5, f10 * 1.5)
+  return { f10, tphl, f90: cross(0.9, tphl * 1.5), reach }
+}
+
+/**
+ * Turn-off: the storage time until the base charge falls to what the load needs, then the
+ * collector rise u(t) = VCC - v from the level reached; with R_BE the transistor cuts off
+ * once the Miller current no longer covers I_x and the node then relaxes through RL alone.
+ */
+function turnOff(e: EdgeTerms, u0: number): { storage: number; r10: number; r50: number; r90: number } {
+  const { p, op, iav, ic, ixOff, tau, tauL } = e
+  const tauS = distinct(p.tauS, tauL)
+  const level = (1 + ixOff / ic) / (iav / ic)
+  let storage = 0
+  if (level < 1) {
+    // (tauS e^(-t/tauS) - tauL e^(-t/tauL)) / (tauS - tauL) falls from 1 to 0
+    const q = (t: number) => level - (tauS * decay(t, tauS) - tauL * decay(t, tauL)) / (tauS - tauL)
+    const dq = (t: number) => (decay(t, tauS) - decay(t, tauL)) / (tauS - tauL)
+    storage = rootIncreasing(q, dq, 0, tauS * Math.log(1 / level) + Math.min(tauL, tauS))
+  }
+  const k0 = (op.rl * iav * decay(storage, tauL) * tauL) / (tauL - tau)
+  const rx = op.rl * ixOff
+  const uActive = (t: number) => (u0 - k0 + rx) * decay(t, tau) + k0 * decay(t, tauL) - rx
+  let tCut = Infinity
+  let uCut = 0
+  const tauCut = op.rl * (p.cMiller / op.hfe + op.loadCap)
+  if (ixOff > 0) {
+    const collector = (t: number) => {
+      const ip = iav * decay(storage + t, tauL)
+      const slope = (uActive(t) - op.rl * (ip - ixOff)) / tau
+      return -(ip - ixOff + p.cMiller * slope)
+    }
+    const dCollector = (t: number) => (collector(t * (1 + 1e-6) + 1e-15) - collector(t)) / (t * 1e-6 + 1e-15)
+    tCut = collector(0) >= 0 ? 0 : rootIncreasing(collector, dCollector, 0, tau)
+    uCut = uActive(tCut)
+  }
+  const u = (t: number) => (t <= tCut ? uActive(t) : uCut * decay(t - tCut, tauCut))
+  // -u'(t): the rise's slope
+  const du = (t: number) =>
+    t <= tCut ? ((u0 - k0 + rx) * decay(t, tau)) / tau + (k0 * decay(t, tauL)) / tauL : tauCut > 0 ? (uCut * decay(t - tCut, tauCut)) / tauCut : 0
+  const cross = (x: number, guess: number) => rootIncreasing((t) => x * u0 - u(t), du, 0, guess)
+  const r10 = cross(0.9, tau * 0.105)
+  const r50 = cross(0.5, Math.max(r10, tau * Math.LN2))
+  return { storage, r10, r50, r90: cross(0.1, Math.max(r50, tau * Math.log(10))) }
+}
+
 /**
  * Typical switching times of the coupler output at one operating point, from calibrated
  * charge-control parameters. All inputs SI; the result is finite for any positive input.
@@ -127,98 +218,14 @@ export function predictSwitching(p: ChargeControlParams, op: CouplerOperatingPoi
   const ix = op.rbe !== undefined ? (op.hfe * VBE_HIGH) / op.rbe : 0
   const ixOff = op.rbe !== undefined ? (op.hfe * VBE_LOW) / op.rbe : 0
   const tau = op.rl * (p.cMiller * (1 + 1 / op.hfe) + op.loadCap)
-  const tauL = distinct(p.tauLed, tau)
   const overdrive = (iav - ix) / ic
   const switches = iav > ix * (1 + 1e-9)
   if (!switches) return { tplh: 0, tphl: 0, tr: 0, tf: 0, storage: 0, tau, overdrive, rbeCurrent: ix, switches }
-
-  // ---- turn-on: dead time, then the collector drop v(t) below VCC
-  // the base charge qOn arrives from the lagged photocurrent (R_BE takes about half of
-  // VBE / R_BE while VBE rises); the collector cannot conduct before the drive exceeds I_x
-  const tStart = ix > 0 ? -tauL * Math.log(1 - ix / iav) : 0
-  const charge = (t: number) => iav * (t - tauL * (1 - decay(t, tauL))) - 0.5 * ix * t - p.qOn
-  const dCharge = (t: number) => iav * (1 - decay(t, tauL)) - 0.5 * ix
-  // guess: the lagged current's ramp (t << tauL), else its plateau
-  const ramp = Math.sqrt((2 * tauL * p.qOn) / iav)
-  const tDead = Math.max(tStart, p.qOn > 0 ? rootIncreasing(charge, dCharge, 0, ramp < tauL ? ramp : p.qOn / iav + tauL) : 0)
-  // tau v' = -v + RL (a - b e^(-t/tauL)), v(tDead) = 0
-  const a = op.rl * (iav - ix)
-  const bK = (op.rl * iav * tauL) / (tauL - tau)
-  const eD = decay(tDead, tauL)
-  const drop = (t: number) => {
-    const s = t - tDead
-    return a * (1 - decay(s, tau)) - bK * (decay(t, tauL) - eD * decay(s, tau))
-  }
-  const dDrop = (t: number) => {
-    const es = decay(t - tDead, tau)
-    return (a * es) / tau + bK * (decay(t, tauL) / tauL - (eD * es) / tau)
-  }
-  // the typical part may not reach the full swing: time its fractions of what it does reach
-  const reach = Math.min(swing, a)
-  const onCross = (x: number, guess: number) => rootIncreasing((t) => drop(t) - x * reach, dDrop, tDead, guess)
-  // the first guess: the drive as a step through tau and tauL in series
-  const f10 = onCross(0.1, tDead + (tau + tauL) * -Math.log(1 - (0.1 * reach) / a))
-  const tphl = onCross(0.5, f10 * 1.5)
-  const f90 = onCross(0.9, tphl * 1.5)
-
-  // ---- turn-off: storage, then the collector rise u(t) = VCC - v
-  const od = iav / ic
-  const r = ixOff / ic
-  const tauS = distinct(p.tauS, tauL)
-  const level = (1 + r) / od
-  let storage = 0
-  if (level < 1) {
-    // (tauS e^(-t/tauS) - tauL e^(-t/tauL)) / (tauS - tauL) falls from 1 to 0
-    const q = (t: number) => level - (tauS * decay(t, tauS) - tauL * decay(t, tauL)) / (tauS - tauL)
-    const dq = (t: number) => (decay(t, tauS) - decay(t, tauL)) / (tauS - tauL)
-    storage = rootIncreasing(q, dq, 0, tauS * Math.log(1 / level) + Math.min(tauL, tauS))
-  }
-  // start from the level actually reached
-  const u0 = reach
-  const a0 = iav * decay(storage, tauL)
-  const k0 = (op.rl * a0 * tauL) / (tauL - tau)
-  const rx = op.rl * ixOff
-  const uActive = (t: number) => (u0 - k0 + rx) * decay(t, tau) + k0 * decay(t, tauL) - rx
-  // with R_BE the transistor cuts off once the Miller current no longer covers I_x
-  let tCut = Infinity
-  let uCut = 0
-  const tauCut = op.rl * (p.cMiller / op.hfe + op.loadCap)
-  if (ixOff > 0) {
-    const collector = (t: number) => {
-      const u = uActive(t)
-      const ip = iav * decay(storage + t, tauL)
-      const slope = (u - op.rl * (ip - ixOff)) / tau
-      return -(ip - ixOff + p.cMiller * slope)
-    }
-    const dCollector = (t: number) => (collector(t * (1 + 1e-6) + 1e-15) - collector(t)) / (t * 1e-6 + 1e-15)
-    if (collector(0) >= 0) tCut = 0
-    else tCut = rootIncreasing(collector, dCollector, 0, tau)
-    uCut = uActive(tCut)
-  }
-  const u = (t: number) => (t <= tCut ? uActive(t) : uCut * decay(t - tCut, tauCut))
-  // -u'(t): the rise's slope
-  const du = (t: number) =>
-    t <= tCut
-      ? ((u0 - k0 + rx) * decay(t, tau)) / tau + (k0 * decay(t, tauL)) / tauL
-      : tauCut > 0
-        ? (uCut * decay(t - tCut, tauCut)) / tauCut
-        : 0
-  const offCross = (x: number, guess: number) => rootIncreasing((t) => x * u0 - u(t), du, 0, guess)
-  const r10 = offCross(0.9, tau * 0.105)
-  const r50 = offCross(0.5, Math.max(r10, tau * Math.LN2))
-  const r90 = offCross(0.1, Math.max(r50, tau * Math.log(10)))
-
-  return {
-    tplh: storage + r50,
-    tphl,
-    tr: r90 - r10,
-    tf: f90 - f10,
-    storage,
-    tau,
-    overdrive,
-    rbeCurrent: ix,
-    switches,
-  }
+  const terms: EdgeTerms = { p, op, swing, ic, iav, ix, ixOff, tau, tauL: distinct(p.tauLed, tau) }
+  const on = turnOn(terms)
+  // the turn-off starts from the level the turn-on reached
+  const off = turnOff(terms, on.reach)
+  return { tplh: off.storage + off.r50, tphl: on.tphl, tr: off.r90 - off.r10, tf: on.f90 - on.f10, storage: off.storage, tau, overdrive, rbeCurrent: ix, switches }
 }
 
 /** One characterisation point in the model's terms (every condition resolved). */

@@ -172,40 +172,16 @@ function scenarios(stage: PhototransistorStage, hfe: number): CalibratedScenario
 const clampTo = (v: number, [lo, hi]: [number, number]) => Math.min(hi, Math.max(lo, v))
 const outside = (v: number, [lo, hi]: [number, number]) => v < lo * (1 - 1e-6) || v > hi * (1 + 1e-6)
 
-/**
- * The phototransistor stage reduced to the chain's edge model, with its warnings, static
- * operating point and calibrated model. `stage` is the validated schema object (defaults
- * may be missing: they are applied here as the schema states them).
- */
-export function phototransistorModel(stage: PhototransistorStage): {
-  model: StageEdgeModel
-  warnings: Warning[]
-  operating: PhototransistorOperating
-  coupler: CouplerModelInfo
-} {
-  const warnings: Warning[] = []
-  const wiring = stage.wiring ?? 'collector'
-  const ledOnWhen = stage.ledOnWhen ?? 'high'
+/** The static operating point (section 5, static checks) with its warnings and absolute-maximum checks. */
+function staticOperatingPoint(stage: PhototransistorStage, hfe: number, warnings: Warning[]): PhototransistorOperating & { diverted: number; swingV: number } {
   const vceSat = stage.vceSat ?? 0.4
-  const loadCap = stage.loadCap ?? 0
   const { vcc, rl } = stage
-  const hfe = stage.hfe ?? DEFAULT_HFE
-
-  // ---- static operating point (section 5, static checks)
   const ledCurrent = ledCurrentOf(stage)
-  if (stage.rLed !== undefined && stage.ledCurrent !== undefined) {
-    if (Math.abs(ledCurrent - stage.ledCurrent) > 0.01 * Math.max(ledCurrent, stage.ledCurrent))
-      warnings.push({
-        code: 'other',
-        message: `LED current ${eng(stage.ledCurrent, 'A')} disagrees with (drive - VF - driver drop)/rLed = ${eng(ledCurrent, 'A')}; rLed is used.`,
-      })
-  }
+  if (stage.rLed !== undefined && stage.ledCurrent !== undefined && Math.abs(ledCurrent - stage.ledCurrent) > 0.01 * Math.max(ledCurrent, stage.ledCurrent))
+    warnings.push({ code: 'other', message: `LED current ${eng(stage.ledCurrent, 'A')} disagrees with (drive - VF - driver drop)/rLed = ${eng(ledCurrent, 'A')}; rLed is used.` })
   const drop = driverDropOf(stage)
   if (stage.rLed !== undefined && stage.driveVoltage <= stage.vf + drop)
-    warnings.push({
-      code: 'unsaturated',
-      message: `Drive voltage ${eng(stage.driveVoltage, 'V')} does not exceed the LED forward voltage ${eng(stage.vf, 'V')} plus the driver's own drop ${eng(drop, 'V')}: the LED never lights.`,
-    })
+    warnings.push({ code: 'unsaturated', message: `Drive voltage ${eng(stage.driveVoltage, 'V')} does not exceed the LED forward voltage ${eng(stage.vf, 'V')} plus the driver's own drop ${eng(drop, 'V')}: the LED never lights.` })
   const swingV = Math.max(0, vcc - vceSat)
   const icRequired = swingV / rl
   const diverted = rbeDivertedCurrent(stage.rbe, hfe, VBE_HIGH)
@@ -213,27 +189,15 @@ export function phototransistorModel(stage: PhototransistorStage): {
   // no swing (VCC <= VCE(sat)) cannot be driven at all: overdrive 0, not saturated
   const overdrive = icRequired > 0 ? icAvailable / icRequired : 0
   const saturated = icRequired > 0 && ledCurrent > 0 && icAvailable >= icRequired
-  if (vcc <= vceSat)
-    warnings.push({ code: 'other', message: `Output supply ${eng(vcc, 'V')} is not above VCE(sat) ${eng(vceSat, 'V')}: the output has no swing.` })
+  if (vcc <= vceSat) warnings.push({ code: 'other', message: `Output supply ${eng(vcc, 'V')} is not above VCE(sat) ${eng(vceSat, 'V')}: the output has no swing.` })
   if (!saturated)
     warnings.push({
       code: 'unsaturated',
       message: `Output does not saturate: derated CTR gives ${eng(icAvailable, 'A')}${diverted > 0 ? ` (after ${eng(diverted, 'A')} taken by RBE)` : ''} but (VCC - VCE(sat))/RL needs ${eng(icRequired, 'A')} (overdrive ${overdrive.toFixed(2)}). Raise the LED current or the pull-up resistance${diverted > 0 ? ', or RBE' : ''}.`,
     })
   if (stage.ctrTestCurrent !== undefined && ledCurrent > 0 && ledCurrent < 0.5 * stage.ctrTestCurrent)
-    warnings.push({
-      code: 'other',
-      message: `LED current ${eng(ledCurrent, 'A')} is well below the CTR test current ${eng(stage.ctrTestCurrent, 'A')}; CTR usually falls at low current, so the stated minimum may not hold.`,
-    })
-
-  // Collector current in service: the load limits it to icRequired once saturated; a
-  // part at the derated minimum CTR gives icAvailable. Power worst case over that range.
-  const icLow = Math.min(icAvailable, icRequired)
-  let pT = Math.max(transistorPower(icLow, vcc, vceSat, rl), transistorPower(icRequired, vcc, vceSat, rl))
-  const icPeak = vcc / (2 * rl) // maximum of ic*(vcc - ic*rl)
-  if (icPeak > icLow && icPeak < icRequired) pT = Math.max(pT, transistorPower(icPeak, vcc, vceSat, rl))
-  const power = ledCurrent * stage.vf + pT
-
+    warnings.push({ code: 'other', message: `LED current ${eng(ledCurrent, 'A')} is well below the CTR test current ${eng(stage.ctrTestCurrent, 'A')}; CTR usually falls at low current, so the stated minimum may not hold.` })
+  const power = ledCurrent * stage.vf + transistorPowerWorst(vcc, vceSat, rl, Math.min(icAvailable, icRequired), icRequired)
   absMax(warnings, ledCurrent, stage.ledCurrentMax, 'LED current', 'A')
   absMax(warnings, icRequired, stage.collectorCurrentMax, 'Collector current', 'A')
   absMax(warnings, power, stage.powerMax, 'Coupler power', 'W')
@@ -243,76 +207,83 @@ export function phototransistorModel(stage: PhototransistorStage): {
       code: 'absolute-maximum',
       message: `Driving pin current ${eng(ledCurrent, 'A')} exceeds its limit ${eng(pinLimit, 'A')}${stage.driverCurrentMax === undefined ? ' (the default for a logic pin)' : ''}: drive the LED through a transistor switch, or lower the LED current.`,
     })
+  return { ledCurrent, icRequired, icAvailable, overdrive, saturated, power, diverted, swingV }
+}
 
-  // ---- switching times (section 5, timing): calibrated model at the stage's operating point
+/**
+ * The transistor's dissipation, worst case over the collector currents in service: the load
+ * limits it to icRequired once saturated, a part at the derated minimum CTR gives icLow.
+ */
+function transistorPowerWorst(vcc: number, vceSat: number, rl: number, icLow: number, icRequired: number): number {
+  let p = Math.max(transistorPower(icLow, vcc, vceSat, rl), transistorPower(icRequired, vcc, vceSat, rl))
+  const icPeak = vcc / (2 * rl) // maximum of ic*(vcc - ic*rl)
+  if (icPeak > icLow && icPeak < icRequired) p = Math.max(p, transistorPower(icPeak, vcc, vceSat, rl))
+  return p
+}
+
+/**
+ * Switching times (section 5, timing): the calibrated model at the stage's operating point
+ * for every CTR hypothesis; the typical value, the fastest and the slowest, the slow delays
+ * never faster than the model at the characterised range's nearest edge.
+ */
+function switchingTimes(stage: PhototransistorStage, ledCurrent: number, hfe: number) {
+  const wiring = stage.wiring ?? 'collector'
+  const loadCap = stage.loadCap ?? 0
   const calibrated = scenarios(stage, hfe)
   const central = calibrated[0]!
   const conditions = stage.characterization.map((p) => pointOperating(p, stage, central.ctrTyp, hfe))
-  const box = {
-    rl: spanOf(conditions.map((c) => c.rl)),
-    ledCurrent: spanOf(conditions.map((c) => c.ledCurrent)),
-    loadCap: spanOf(conditions.map((c) => c.loadCap)),
-  }
+  const box = { rl: spanOf(conditions.map((c) => c.rl)), ledCurrent: spanOf(conditions.map((c) => c.ledCurrent)), loadCap: spanOf(conditions.map((c) => c.loadCap)) }
   const here = (ctrTyp: number): CouplerOperatingPoint => ({
-    rl,
+    rl: stage.rl,
     ledCurrent,
     loadCap,
-    vcc,
-    vceSat,
+    vcc: stage.vcc,
+    vceSat: stage.vceSat ?? 0.4,
     ctrTyp,
     hfe,
     ...(stage.rbe !== undefined ? { rbe: stage.rbe } : {}),
   })
   const lit = ledCurrent > 0
-  const predictions: CouplerSwitching[] = lit ? calibrated.map((s) => predictSwitching(s.calibration.params, here(s.ctrTyp))) : []
-  const typPrediction = predictions[0]
+  const predictions: CouplerSwitching[] = lit ? calibrated.map((sc) => predictSwitching(sc.calibration.params, here(sc.ctrTyp))) : []
   // the load adds to the output node's capacitance (physics, not a fitted trend): only a
   // load lighter than every point's can make the model faster than the range allows
-  const outsideRange = outside(rl, box.rl) || outside(ledCurrent, box.ledCurrent)
+  const outsideRange = outside(stage.rl, box.rl) || outside(ledCurrent, box.ledCurrent)
   const lighterLoad = loadCap < box.loadCap[0] * (1 - 1e-6)
-  // the slow corners never faster than the model at the range's nearest edge
   const edge =
     lit && (outsideRange || lighterLoad)
-      ? predictSwitching(central.calibration.params, {
-          ...here(central.ctrTyp),
-          rl: clampTo(rl, box.rl),
-          ledCurrent: clampTo(ledCurrent, box.ledCurrent),
-          loadCap: clampTo(loadCap, box.loadCap),
-        })
+      ? predictSwitching(central.calibration.params, { ...here(central.ctrTyp), rl: clampTo(stage.rl, box.rl), ledCurrent: clampTo(ledCurrent, box.ledCurrent), loadCap: clampTo(loadCap, box.loadCap) })
       : null
-
   const typ = {} as Record<CharQuantity, number>
   const lo = {} as Record<CharQuantity, number>
   const hi = {} as Record<CharQuantity, number>
   for (const q of CHAR_QUANTITIES) {
     const mq = modelQuantity(wiring, q)
     const values = predictions.map((p) => p[mq])
-    typ[q] = typPrediction ? typPrediction[mq] : 0
+    typ[q] = predictions[0] ? predictions[0][mq] : 0
     lo[q] = values.length ? Math.min(...values) : 0
     // the delays' slow corners are held at the edge; the transitions follow the model (a
     // transition held at another LED current would not belong to this edge's delay)
     const isDelay = q === 'tplh' || q === 'tphl'
     hi[q] = Math.max(values.length ? Math.max(...values) : 0, edge && isDelay ? edge[mq] : 0)
   }
-  // a fit that misses its own points widens the corners by what it misses
-  const missBy = central.calibration.maxRelative
+  return { typ, lo, hi, central, conditions, box, outsideRange, lighterLoad, typPrediction: predictions[0], loadCap }
+}
 
-  if (lit && typPrediction && !typPrediction.switches)
-    warnings.push({
-      code: 'unsaturated',
-      message: `RBE ${eng(stage.rbe ?? 0, 'Ω')} diverts more current than the typical photocurrent supplies: the output never switches.`,
-    })
+/** What the model had to assume or could not reproduce, in words. */
+function modelWarnings(stage: PhototransistorStage, ledCurrent: number, t: ReturnType<typeof switchingTimes>, warnings: Warning[]) {
+  const { central, box } = t
+  if (ledCurrent > 0 && t.typPrediction && !t.typPrediction.switches)
+    warnings.push({ code: 'unsaturated', message: `RBE ${eng(stage.rbe ?? 0, 'Ω')} diverts more current than the typical photocurrent supplies: the output never switches.` })
   if (stage.ctrTyp === undefined)
     warnings.push({
       code: 'other',
       message: `Typical CTR not given: assumed ${formatPercent(central.ctrTyp)} (${(central.ctrTyp / stage.ctrMin).toFixed(2)} x the minimum); the corners also cover ${CTR_TYP_BRACKET.map((m) => formatPercent(m * stage.ctrMin)).join(' and ')}. Enter the datasheet's typical CTR for tighter predictions.`,
     })
-  if (stage.rbe !== undefined && stage.hfe === undefined)
-    warnings.push({ code: 'other', message: `RBE is fitted but hfe is not given: the output transistor's gain is taken as ${DEFAULT_HFE}.` })
-  if (outsideRange)
+  if (stage.rbe !== undefined && stage.hfe === undefined) warnings.push({ code: 'other', message: `RBE is fitted but hfe is not given: the output transistor's gain is taken as ${DEFAULT_HFE}.` })
+  if (t.outsideRange)
     warnings.push({
       code: 'extrapolation',
-      message: `The operating point (RL ${eng(rl, 'Ω')}, LED ${eng(ledCurrent, 'A')}) is outside the characterised range (RL ${eng(box.rl[0], 'Ω')} to ${eng(box.rl[1], 'Ω')}, LED ${eng(box.ledCurrent[0], 'A')} to ${eng(box.ledCurrent[1], 'A')}): the typical times follow the model; the slow corners are held at the range's nearest edge. Add a point taken near these conditions.`,
+      message: `The operating point (RL ${eng(stage.rl, 'Ω')}, LED ${eng(ledCurrent, 'A')}) is outside the characterised range (RL ${eng(box.rl[0], 'Ω')} to ${eng(box.rl[1], 'Ω')}, LED ${eng(box.ledCurrent[0], 'A')} to ${eng(box.ledCurrent[1], 'A')}): the typical times follow the model; the slow corners are held at the range's nearest edge. Add a point taken near these conditions.`,
     })
   if (central.calibration.maxRelative > 0.15)
     warnings.push({
@@ -331,84 +302,113 @@ export function phototransistorModel(stage: PhototransistorStage): {
       code: 'other',
       message: `${assumedConditions} characterisation point${assumedConditions === 1 ? ' does' : 's do'} not state the LED current or load it was taken at: taken at ${eng(stage.ctrTestCurrent ?? POINT_DEFAULT_LED_CURRENT, 'A')} and ${eng(POINT_DEFAULT_LOAD_CAP, 'F')}.`,
     })
+}
 
-  // ---- output swing: collector wiring VCE(sat)..VCC, emitter wiring 0..VCC - VCE(sat);
-  // an unsaturated output only reaches what the derated current can pull across RL.
+/**
+ * The output swing: collector wiring VCE(sat)..VCC, emitter wiring 0..VCC - VCE(sat); an
+ * unsaturated output only reaches what the derated current can pull across RL.
+ */
+function outputSwing(stage: PhototransistorStage, op: { saturated: boolean; icAvailable: number; swingV: number }): { vLow: number; vHigh: number } {
+  const vceSat = stage.vceSat ?? 0.4
   let vLow: number
   let vHigh: number
-  if (wiring === 'collector') {
-    vHigh = vcc
-    vLow = saturated ? vceSat : Math.max(vceSat, vcc - icAvailable * rl)
+  if ((stage.wiring ?? 'collector') === 'collector') {
+    vHigh = stage.vcc
+    vLow = op.saturated ? vceSat : Math.max(vceSat, stage.vcc - op.icAvailable * stage.rl)
   } else {
     vLow = 0
-    vHigh = saturated ? swingV : Math.min(swingV, icAvailable * rl)
+    vHigh = op.saturated ? op.swingV : Math.min(op.swingV, op.icAvailable * stage.rl)
   }
-  if (stage.vLow !== undefined) vLow = stage.vLow
-  if (stage.vHigh !== undefined) vHigh = stage.vHigh
+  return { vLow: stage.vLow ?? vLow, vHigh: stage.vHigh ?? vHigh }
+}
 
+/** The chain's edge model from the switching times: corners widened by what the fit misses, fast corners kept causal. */
+function edgeModel(stage: PhototransistorStage, t: ReturnType<typeof switchingTimes>, swing: { vLow: number; vHigh: number }): StageEdgeModel {
+  const wiring = stage.wiring ?? 'collector'
+  const { typ, lo, hi } = t
   const passive = passiveDirection(wiring)
   const riseShape: EdgeShape = passive === 'rise' ? 'exponential' : 'ramp'
   const fallShape: EdgeShape = passive === 'fall' ? 'exponential' : 'ramp'
-  const widen = 1 + missBy
+  // a fit that misses its own points widens the corners by what it misses
+  const widen = 1 + t.central.calibration.maxRelative
   const tr = { typ: typ.tr, max: hi.tr * widen * (1 + TYPICAL_SPREAD) }
   const tf = { typ: typ.tf, max: hi.tf * widen * (1 + TYPICAL_SPREAD) }
   // a fast corner never puts the output's own edge before its cause: the delay is at least
   // the time the edge shape takes from its start to 50 % (ramp 0.625 t, exponential ln 2 / ln 9 t)
-  const lead = (shape: EdgeShape, t: number) => (shape === 'ramp' ? 0.625 : Math.LN2 / Math.log(9)) * t
-  const causal = (c: Corners, t: { typ: number; max: number }, shape: EdgeShape): Corners => {
-    const min = Math.min(c.typ, Math.max(c.min, lead(shape, t.max)))
+  const lead = (shape: EdgeShape, x: number) => (shape === 'ramp' ? 0.625 : Math.LN2 / Math.log(9)) * x
+  const causal = (c: Corners, tt: { typ: number; max: number }, shape: EdgeShape): Corners => {
+    const min = Math.min(c.typ, Math.max(c.min, lead(shape, tt.max)))
     // a bracketed transition longer than the typical delay allows is held to what it allows
-    if (lead(shape, t.max) > c.typ) t.max = Math.max(t.typ, c.typ / lead(shape, 1))
+    if (lead(shape, tt.max) > c.typ) tt.max = Math.max(tt.typ, c.typ / lead(shape, 1))
     return { ...c, min }
   }
-  const model: StageEdgeModel = {
-    inverting: phototransistorInverts(wiring, ledOnWhen),
+  return {
+    inverting: phototransistorInverts(wiring, stage.ledOnWhen ?? 'high'),
     tplh: causal(delayCorners(typ.tplh, lo.tplh, hi.tplh * widen, stage.partSkew), tr, riseShape),
     tphl: causal(delayCorners(typ.tphl, lo.tphl, hi.tphl * widen, stage.partSkew), tf, fallShape),
     tr,
     tf,
     riseShape,
     fallShape,
-    vLow,
-    vHigh,
+    vLow: swing.vLow,
+    vHigh: swing.vHigh,
     partSkew: stage.partSkew ?? 0,
     jitterRms: stage.jitterRms ?? 0,
     jitterPeak: stage.jitterPeak ?? 0,
   }
-  if (lighterLoad && !outsideRange)
-    warnings.push({
-      code: 'extrapolation',
-      message: `The load ${eng(loadCap, 'F')} is lighter than every point's (${eng(box.loadCap[0], 'F')} and up): the slow corners are held at the lightest characterised load.`,
-    })
-  const coupler: CouplerModelInfo = {
-    params: central.calibration.params,
-    fit: {
-      values: central.calibration.values,
-      points: stage.characterization.length,
-      rmsRelative: central.calibration.rmsRelative,
-      maxRelative: central.calibration.maxRelative,
-      residuals: central.calibration.residuals,
-    },
-    ctrTyp: central.ctrTyp,
+}
+
+/** The calibrated model as the stage form and the report show it. */
+function couplerInfo(stage: PhototransistorStage, hfe: number, diverted: number, t: ReturnType<typeof switchingTimes>): CouplerModelInfo {
+  const cal = t.central.calibration
+  return {
+    params: cal.params,
+    fit: { values: cal.values, points: stage.characterization.length, rmsRelative: cal.rmsRelative, maxRelative: cal.maxRelative, residuals: cal.residuals },
+    ctrTyp: t.central.ctrTyp,
     ctrTypAssumed: stage.ctrTyp === undefined,
     hfe,
     hfeAssumed: stage.hfe === undefined,
-    storage: typPrediction?.storage ?? 0,
-    tau: typPrediction?.tau ?? 0,
-    typicalOverdrive: typPrediction?.overdrive ?? 0,
+    storage: t.typPrediction?.storage ?? 0,
+    tau: t.typPrediction?.tau ?? 0,
+    typicalOverdrive: t.typPrediction?.overdrive ?? 0,
     rbeCurrent: diverted,
-    range: box,
-    outsideRange,
+    range: t.box,
+    outsideRange: t.outsideRange,
     pointConditions: stage.characterization.map((p, i) => ({
-      rl: conditions[i]!.rl,
-      ledCurrent: conditions[i]!.ledCurrent,
-      loadCap: conditions[i]!.loadCap,
-      vcc: conditions[i]!.vcc,
+      rl: t.conditions[i]!.rl,
+      ledCurrent: t.conditions[i]!.ledCurrent,
+      loadCap: t.conditions[i]!.loadCap,
+      vcc: t.conditions[i]!.vcc,
       rbe: p.rbe ?? null,
       assumed: [...(p.ledCurrent === undefined ? ['ledCurrent'] : []), ...(p.loadCap === undefined ? ['loadCap'] : []), ...(p.vcc === undefined ? ['vcc'] : [])],
     })),
   }
-  return { model, warnings, operating: { ledCurrent, icRequired, icAvailable, overdrive, saturated, power }, coupler }
+}
+
+/**
+ * The phototransistor stage reduced to the chain's edge model, with its warnings, static
+ * operating point and calibrated model. `stage` is the validated schema object (defaults
+ * may be missing: they are applied here as the schema states them).
+ */
+export function phototransistorModel(stage: PhototransistorStage): {
+  model: StageEdgeModel
+  warnings: Warning[]
+  operating: PhototransistorOperating
+  coupler: CouplerModelInfo
+} {
+  const warnings: Warning[] = []
+  const hfe = stage.hfe ?? DEFAULT_HFE
+  const op = staticOperatingPoint(stage, hfe, warnings)
+  const t = switchingTimes(stage, op.ledCurrent, hfe)
+  modelWarnings(stage, op.ledCurrent, t, warnings)
+  const model = edgeModel(stage, t, outputSwing(stage, op))
+  if (t.lighterLoad && !t.outsideRange)
+    warnings.push({
+      code: 'extrapolation',
+      message: `The load ${eng(t.loadCap, 'F')} is lighter than every point's (${eng(t.box.loadCap[0], 'F')} and up): the slow corners are held at the lightest characterised load.`,
+    })
+  const { ledCurrent, icRequired, icAvailable, overdrive, saturated, power } = op
+  return { model, warnings, operating: { ledCurrent, icRequired, icAvailable, overdrive, saturated, power }, coupler: couplerInfo(stage, hfe, op.diverted, t) }
 }
 
 function spanOf(values: number[]): [number, number] {

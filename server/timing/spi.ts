@@ -109,146 +109,155 @@ function skewBetween(spi: SpiSettings, a: SpiPath, b: SpiPath): number | null {
   return null
 }
 
-/**
- * Slack of every SPI check, the maximum SCLK and the candidate table for an SPI link,
- * given the chain result of each of its channels (matched by channel id).
- */
-export function analyzeSpi(link: Link, chains: ChainResult[], notFunctional: (string | null)[] = []): SpiResult {
-  const spi = link.spi
-  if (!spi) throw new Error('spi: an SPI link needs spi settings')
-  const ctl = spi.controller
-  const per = spi.peripheral
-  const warnings: Warning[] = []
-  const assumptions: string[] = [
-    'SPI: the controller launches MOSI and samples MISO exactly on its own SCLK edges (no controller output delay), SCLK at 50 % duty.',
-    'SPI: chip select is active low; lead runs from CS asserted to the first SCLK edge, lag from the last (trailing) SCLK edge to CS released.',
-    'SPI: worst-case slacks subtract each edge\'s peak jitter; random (rms) jitter is not in them.',
-    ...(spi.requiredSlackFraction ? [`SPI: each check that scales with the clock keeps at least ${Math.round(spi.requiredSlackFraction * 100)} % of the half period as slack (and every check at least the fixed required slack).`] : []),
-    "SPI: channels in one isolator package differ by at most its channelSkew around their typical difference (plus the channel's own PWD for opposite edges); channels in different parts by the larger partSkew when both state one; otherwise their delay corners are independent.",
-  ]
+/** A check's slack as a line in the half period H: slack = k*H + c. */
+interface Line {
+  k: number
+  c: number
+  description: string
+}
 
-  const pathFor = (role: 'sclk' | 'mosi' | 'miso' | 'cs'): SpiPath | null => {
-    const ch = link.channels.find((c) => c.role === role)
-    if (!ch) return null
-    const chain = chains.find((c) => c.id === ch.id)
-    if (!chain) throw new Error(`spi: no chain result for channel '${ch.id}'`)
-    const physicallyInverted = chain.polarity === 'inverted'
-    const receiverInverts = ch.receiver.invert ?? false
-    const logicallyInverted = physicallyInverted !== receiverInverts
-    if (logicallyInverted)
-      warnings.push({
-        code: 'inverted-polarity',
-        channel: ch.id,
-        message: `${role.toUpperCase()} channel '${ch.id}' arrives inverted: the ${role === 'sclk' ? 'clock polarity (CPOL) at the peripheral is wrong' : role === 'cs' ? 'chip select is asserted at the wrong level' : 'data bits arrive inverted'}. Add a second inverting stage or set the receiver to invert.`,
-      })
-    return { id: ch.id, chain, physicallyInverted, logicallyInverted, receiverInverts }
-  }
-  const sclk = pathFor('sclk')
-  const mosi = pathFor('mosi')
-  const miso = pathFor('miso')
-  const cs = pathFor('cs')
-  if (!sclk || !mosi || !miso) throw new Error('spi: an SPI link needs sclk, mosi and miso channels')
-  if (!cs) assumptions.push('SPI: there is no cs channel, so chip select is taken as not isolated (zero delay).')
+/** The paths and edges every check reads. */
+interface SpiContext {
+  spi: SpiSettings
+  sclk: SpiPath
+  mosi: SpiPath
+  miso: SpiPath
+  cs: SpiPath | null
+  /** SCLK edges at the controller: leading rises when CPOL = 0; CPHA picks the sampling edge */
+  leading: Dir
+  trailing: Dir
+  sampleEdge: Dir
+  launchEdge: Dir
+}
 
-  // ---- edges at the controller (section 3): leading edge rises when CPOL = 0
-  const leading: Dir = spi.cpol === 0 ? 'rise' : 'fall'
-  const trailing = flip(leading)
-  const sampleEdge: Dir = spi.cpha === 0 ? leading : trailing
-  const launchEdge: Dir = spi.cpha === 0 ? trailing : leading
+const SPI_ASSUMPTIONS = [
+  'SPI: the controller launches MOSI and samples MISO exactly on its own SCLK edges (no controller output delay), SCLK at 50 % duty.',
+  'SPI: chip select is active low; lead runs from CS asserted to the first SCLK edge, lag from the last (trailing) SCLK edge to CS released.',
+  "SPI: worst-case slacks subtract each edge's peak jitter; random (rms) jitter is not in them.",
+]
+const SKEW_ASSUMPTION =
+  "SPI: channels in one isolator package differ by at most its channelSkew around their typical difference (plus the channel's own PWD for opposite edges); channels in different parts by the larger partSkew when both state one; otherwise their delay corners are independent."
 
-  const jS = sclk.chain.jitterPeak
-  const jM = mosi.chain.jitterPeak
-  const jR = miso.chain.jitterPeak
-  const jC = cs?.chain.jitterPeak ?? 0
+/** The channel of a role as a path, with a warning when it arrives inverted; null when the link has none. */
+function pathFor(link: Link, chains: ChainResult[], role: 'sclk' | 'mosi' | 'miso' | 'cs', warnings: Warning[]): SpiPath | null {
+  const ch = link.channels.find((c) => c.role === role)
+  if (!ch) return null
+  const chain = chains.find((c) => c.id === ch.id)
+  if (!chain) throw new Error(`spi: no chain result for channel '${ch.id}'`)
+  const physicallyInverted = chain.polarity === 'inverted'
+  const receiverInverts = ch.receiver.invert ?? false
+  const logicallyInverted = physicallyInverted !== receiverInverts
+  if (logicallyInverted)
+    warnings.push({
+      code: 'inverted-polarity',
+      channel: ch.id,
+      message: `${role.toUpperCase()} channel '${ch.id}' arrives inverted: the ${role === 'sclk' ? 'clock polarity (CPOL) at the peripheral is wrong' : role === 'cs' ? 'chip select is asserted at the wrong level' : 'data bits arrive inverted'}. Add a second inverting stage or set the receiver to invert.`,
+    })
+  return { id: ch.id, chain, physicallyInverted, logicallyInverted, receiverInverts }
+}
 
-  // ---- MOSI at the peripheral: launched at 0, sampled on the SCLK edge H later
-  const sPin = pinDir(sclk, sampleEdge)
-  const mosiSkew = skewBetween(spi, mosi, sclk)
+/** mosi-setup and mosi-hold: MOSI launched at 0 against the SCLK edge the peripheral samples on, H later. */
+function mosiChecks(x: SpiContext): Record<'mosi-setup' | 'mosi-hold', Line> {
+  const sPin = pinDir(x.sclk, x.sampleEdge)
+  const skew = skewBetween(x.spi, x.mosi, x.sclk)
   let diffMax = -Infinity
   let diffMin = Infinity
   for (const dm of ['rise', 'fall'] as const) {
-    const d = delayDifference(mosi.chain, dm, sclk.chain, sPin, mosiSkew)
+    const d = delayDifference(x.mosi.chain, dm, x.sclk.chain, sPin, skew)
     diffMax = Math.max(diffMax, d.max)
     diffMin = Math.min(diffMin, d.min)
   }
-
-  // ---- SCLK widths at the peripheral pin: high = H - (D_rise - D_fall)
-  const pw = sclk.chain.pwd
-  const physHigh = { c: -pw.max - 2 * jS }
-  const physLow = { c: pw.min - 2 * jS }
-  const logicalHigh = sclk.receiverInverts ? physLow : physHigh
-  const logicalLow = sclk.receiverInverts ? physHigh : physLow
-
-  // ---- MISO round trip: SCLK launch edge forward, clock-to-output, MISO back
-  const sLaunch = delayOf(sclk, launchEdge)
-  const r = { min: Math.min(miso.chain.rise.min, miso.chain.fall.min), max: Math.max(miso.chain.rise.max, miso.chain.fall.max) }
-  const roundTrip = {
-    min: sLaunch.min + per.clockToOut.min + r.min,
-    max: sLaunch.max + per.clockToOut.max + r.max,
+  const j = x.mosi.chain.jitterPeak + x.sclk.chain.jitterPeak
+  const per = x.spi.peripheral
+  return {
+    'mosi-setup': { k: 1, c: -diffMax - j - per.mosiSetup, description: 'MOSI valid before the sampling SCLK edge at the peripheral, less its setup time' },
+    'mosi-hold': { k: 1, c: diffMin - j - per.mosiHold, description: 'MOSI held after the sampling SCLK edge at the peripheral, less its hold time' },
   }
+}
 
-  // ---- chip select against the first / last SCLK edge at the peripheral
-  const csLeadK = ctl.csLeadTime === undefined ? 1 : 0
-  const csLeadC = ctl.csLeadTime ?? 0
-  const csLagK = ctl.csLagTime === undefined ? 1 : 0
-  const csLagC = ctl.csLagTime ?? 0
-  let leadC: number
-  let lagC: number
-  if (cs) {
-    const csSkew = skewBetween(spi, cs, sclk)
-    // CS asserted (falls at the controller) vs the first, leading, SCLK edge
-    const dLead = delayDifference(cs.chain, pinDir(cs, 'fall'), sclk.chain, pinDir(sclk, leading), csSkew)
-    leadC = csLeadC - dLead.max - jC - jS - per.csLead
-    // CS released (rises) vs the last, trailing, SCLK edge
-    const dLag = delayDifference(cs.chain, pinDir(cs, 'rise'), sclk.chain, pinDir(sclk, trailing), csSkew)
-    lagC = csLagC + dLag.min - jC - jS - per.csLag
-  } else {
-    const sLead = delayOf(sclk, leading)
-    const sTrail = delayOf(sclk, trailing)
-    leadC = csLeadC + sLead.min - jS - per.csLead
-    lagC = csLagC - sTrail.max - jS - per.csLag
+/** sclk-high and sclk-low: SCLK's half periods at the peripheral pin, changed by the channel's PWD (high = H - (D_rise - D_fall)). */
+function sclkWidthChecks(x: SpiContext): Record<'sclk-high' | 'sclk-low', Line> {
+  const pw = x.sclk.chain.pwd
+  const jS = x.sclk.chain.jitterPeak
+  const physHigh = -pw.max - 2 * jS
+  const physLow = pw.min - 2 * jS
+  const high = x.sclk.receiverInverts ? physLow : physHigh
+  const low = x.sclk.receiverInverts ? physHigh : physLow
+  const per = x.spi.peripheral
+  return {
+    'sclk-high': { k: 1, c: high - per.sclkHighMin, description: 'SCLK high time at the peripheral (half period changed by PWD) less its minimum' },
+    'sclk-low': { k: 1, c: low - per.sclkLowMin, description: 'SCLK low time at the peripheral (half period changed by PWD) less its minimum' },
   }
+}
 
+/** The MISO round trip: the SCLK launch edge forward, the peripheral's clock-to-output, MISO back. */
+function misoRoundTrip(x: SpiContext): { min: number; max: number } {
+  const sLaunch = delayOf(x.sclk, x.launchEdge)
+  const back = { min: Math.min(x.miso.chain.rise.min, x.miso.chain.fall.min), max: Math.max(x.miso.chain.rise.max, x.miso.chain.fall.max) }
+  const c2o = x.spi.peripheral.clockToOut
+  return { min: sLaunch.min + c2o.min + back.min, max: sLaunch.max + c2o.max + back.max }
+}
+
+/** miso-setup and miso-hold: the round trip against the controller's (possibly delayed) sampling edge. */
+function misoChecks(x: SpiContext, roundTrip: { min: number; max: number }): Record<'miso-setup' | 'miso-hold', Line> {
+  const ctl = x.spi.controller
   const delayed = ctl.delayedSampling ?? false
-  const lin: Record<SpiCheckId, { k: number; c: number; description: string }> = {
-    'mosi-setup': {
-      k: 1,
-      c: -diffMax - jM - jS - per.mosiSetup,
-      description: 'MOSI valid before the sampling SCLK edge at the peripheral, less its setup time',
-    },
-    'mosi-hold': {
-      k: 1,
-      c: diffMin - jM - jS - per.mosiHold,
-      description: 'MOSI held after the sampling SCLK edge at the peripheral, less its hold time',
-    },
-    'sclk-high': { k: 1, c: logicalHigh.c - per.sclkHighMin, description: 'SCLK high time at the peripheral (half period changed by PWD) less its minimum' },
-    'sclk-low': { k: 1, c: logicalLow.c - per.sclkLowMin, description: 'SCLK low time at the peripheral (half period changed by PWD) less its minimum' },
+  const j = x.sclk.chain.jitterPeak + x.miso.chain.jitterPeak
+  return {
     'miso-setup': {
       k: delayed ? 2 : 1,
-      c: -roundTrip.max - jS - jR - ctl.misoSetup,
+      c: -roundTrip.max - j - ctl.misoSetup,
       description: delayed
         ? "MISO round trip against the controller's delayed sampling edge (one half-cycle later), less its setup time"
         : "MISO round trip against the controller's sampling edge, less its setup time",
     },
     'miso-hold': {
       k: delayed ? 0 : 1,
-      c: roundTrip.min - jS - jR - ctl.misoHold,
+      c: roundTrip.min - j - ctl.misoHold,
       description: "MISO held after the controller's sampling edge (next bit's round trip), less its hold time",
     },
-    'cs-lead': { k: csLeadK, c: leadC, description: 'CS asserted before the first SCLK edge at the peripheral, less its lead time' },
-    'cs-lag': { k: csLagK, c: lagC, description: 'CS released after the last SCLK edge at the peripheral, less its lag time' },
-    'pulse-width': { k: 1, c: 0, description: '' },
   }
-  // the shortest pulse a stage passes (digital isolators): an SCLK half period less its PWD,
-  // a data bit (a whole period) less its PWD; the tightest channel sets the check
-  const ids: SpiCheckId[] = [...SPI_CHECK_IDS]
+}
+
+/** cs-lead and cs-lag: chip select against the first and the last SCLK edge at the peripheral. */
+function csChecks(x: SpiContext): Record<'cs-lead' | 'cs-lag', Line> {
+  const { spi, sclk, cs } = x
+  const ctl = spi.controller
+  const per = spi.peripheral
+  const jS = sclk.chain.jitterPeak
+  // without a stated lead / lag time the controller keeps half a period
+  const leadK = ctl.csLeadTime === undefined ? 1 : 0
+  const lagK = ctl.csLagTime === undefined ? 1 : 0
+  let leadC: number
+  let lagC: number
+  if (cs) {
+    const skew = skewBetween(spi, cs, sclk)
+    const jC = cs.chain.jitterPeak
+    // CS asserted (falls at the controller) vs the first, leading, SCLK edge
+    const dLead = delayDifference(cs.chain, pinDir(cs, 'fall'), sclk.chain, pinDir(sclk, x.leading), skew)
+    leadC = (ctl.csLeadTime ?? 0) - dLead.max - jC - jS - per.csLead
+    // CS released (rises) vs the last, trailing, SCLK edge
+    const dLag = delayDifference(cs.chain, pinDir(cs, 'rise'), sclk.chain, pinDir(sclk, x.trailing), skew)
+    lagC = (ctl.csLagTime ?? 0) + dLag.min - jC - jS - per.csLag
+  } else {
+    leadC = (ctl.csLeadTime ?? 0) + delayOf(sclk, x.leading).min - jS - per.csLead
+    lagC = (ctl.csLagTime ?? 0) - delayOf(sclk, x.trailing).max - jS - per.csLag
+  }
+  return {
+    'cs-lead': { k: leadK, c: leadC, description: 'CS asserted before the first SCLK edge at the peripheral, less its lead time' },
+    'cs-lag': { k: lagK, c: lagC, description: 'CS released after the last SCLK edge at the peripheral, less its lag time' },
+  }
+}
+
+/**
+ * pulse-width: the shortest pulse a stage passes (digital isolators) against an SCLK half
+ * period less its PWD, or a data bit (a whole period) less its PWD; the tightest channel
+ * sets the check. Null when no stage states a limit.
+ */
+function pulseWidthCheck(link: Link, x: SpiContext): Line | null {
   let pulse: { k: number; c: number; what: string } | null = null
-  for (const [path, k] of [
-    [sclk, 1],
-    [mosi, 2],
-    [miso, 2],
-    ...(cs ? [[cs, 2] as const] : []),
-  ] as const) {
+  const paths: [SpiPath, number][] = [[x.sclk, 1], [x.mosi, 2], [x.miso, 2], ...(x.cs ? ([[x.cs, 2]] as [SpiPath, number][]) : [])]
+  for (const [path, k] of paths) {
     const ch = link.channels.find((c) => c.id === path.id)!
     const need = Math.max(0, ...ch.stages.map((st) => (st.kind === 'digital' ? Math.max(st.minPulseWidth ?? 0, st.glitchFilter ?? 0, st.maxDataRate ? 1 / st.maxDataRate : 0) : 0)))
     if (need <= 0) continue
@@ -256,35 +265,34 @@ export function analyzeSpi(link: Link, chains: ChainResult[], notFunctional: (st
     // compare at the largest half period where the check binds first: the smaller k*H + c
     if (!pulse || c / k < pulse.c / pulse.k) pulse = { k, c, what: `'${path.id}' pulses against its stages' ${need * 1e9 >= 1 ? `${Number((need * 1e9).toPrecision(3))} ns` : `${need} s`} minimum` }
   }
-  if (pulse) {
-    lin['pulse-width'] = { k: pulse.k, c: pulse.c, description: `Shortest pulse through the isolators (${pulse.what}), after the channel's PWD` }
-    ids.push('pulse-width')
-  }
+  return pulse && { k: pulse.k, c: pulse.c, description: `Shortest pulse through the isolators (${pulse.what}), after the channel's PWD` }
+}
 
-  const required = spi.requiredSlack ?? 0
-  const fraction = spi.requiredSlackFraction ?? 0
-  /** what a check must keep at half period H: the fixed slack, and for checks that scale with the clock a fraction of H */
+/** Every check at an SCLK, each against what it must keep: the fixed slack and, for checks that scale with the clock, a fraction of H. */
+function spiEvaluator(lines: Map<SpiCheckId, Line>, required: number, fraction: number) {
   const requiredAt = (k: number, H: number) => Math.max(required, k > 0 ? fraction * H : 0)
-  const evaluate = (sclkHz: number) => {
+  const evaluate = (sclkHz: number): SpiCheck[] => {
     const H = 1 / (2 * sclkHz)
-    return ids.map((id): SpiCheck => {
-      const { k, c, description } = lin[id]
+    return [...lines].map(([id, { k, c, description }]) => {
       const slack = k * H + c
       const need = requiredAt(k, H)
       return { id, slack, slackFraction: slack / H, required: need, pass: slack >= need, slope: k, offset: c, description }
     })
   }
-  const worstOf = (checks: SpiCheck[]) =>
-    checks.reduce((w, c) => (c.slack - c.required < w.slack - w.required ? c : w), checks[0]!)
+  const worstOf = (checks: SpiCheck[]) => checks.reduce((w, c) => (c.slack - c.required < w.slack - w.required ? c : w), checks[0]!)
+  return { evaluate, worstOf }
+}
 
-  // ---- maximum SCLK, closed form
+/** The highest SCLK meeting every check, closed form (H >= (required - c)/k per check), with the check that sets it. */
+function maxSclk(lines: Map<SpiCheckId, Line>, required: number, fraction: number, warnings: Warning[]): { maxSclkHz: number | null; limitingCheck: SpiCheckId | null } {
   let hMin = 0
   let limitingCheck: SpiCheckId | null = null
-  let impossible: SpiCheckId | null = null
-  for (const id of ids) {
-    const { k, c } = lin[id]
+  for (const [id, { k, c }] of lines) {
     if (k === 0) {
-      if (c < required && impossible === null) impossible = id
+      if (c < required) {
+        warnings.push({ code: 'no-pass', message: `No SCLK passes: ${id} does not depend on SCLK and misses the required slack.` })
+        return { maxSclkHz: null, limitingCheck: id }
+      }
       continue
     }
     // k H + c >= requiredSlack and k H + c >= fraction H (fraction < 1 <= k)
@@ -294,44 +302,67 @@ export function analyzeSpi(link: Link, chains: ChainResult[], notFunctional: (st
       limitingCheck = id
     }
   }
-  let maxSclkHz: number | null
-  if (impossible !== null) {
-    maxSclkHz = null
-    limitingCheck = impossible
-    warnings.push({
-      code: 'no-pass',
-      message: `No SCLK passes: ${impossible} does not depend on SCLK and misses the required slack.`,
-    })
-  } else if (hMin <= 1 / (2 * SPI_SCLK_CAP)) {
-    maxSclkHz = SPI_SCLK_CAP
-    limitingCheck = null
+  if (hMin <= 1 / (2 * SPI_SCLK_CAP)) {
     warnings.push({ code: 'rate-cap', message: `No check limits SCLK up to ${SPI_SCLK_CAP / 1e6} MHz; the cap is reported.` })
-  } else {
-    maxSclkHz = 1 / (2 * hMin)
+    return { maxSclkHz: SPI_SCLK_CAP, limitingCheck: null }
   }
+  return { maxSclkHz: 1 / (2 * hMin), limitingCheck }
+}
 
-  // ---- candidates: prescaler steps of the controller clock, else a 1-2-5 list
-  const candidates: SpiCandidate[] = []
-  if (ctl.clockHz !== undefined) {
-    const steps = [...new Set(ctl.prescalers ?? DEFAULT_PRESCALERS)].sort((a, b) => a - b)
-    for (const p of steps) candidates.push(candidate(ctl.clockHz / p, p))
-  } else {
-    for (const f of STANDARD_SCLK) candidates.push(candidate(f, null))
-  }
-  function candidate(f: number, prescaler: number | null): SpiCandidate {
-    const checks = evaluate(f)
-    const w = worstOf(checks)
+/** Candidate SCLK frequencies: prescaler steps of the controller clock, else a 1-2-5 list; and the fastest that passes. */
+function spiCandidates(spi: SpiSettings, ev: ReturnType<typeof spiEvaluator>): { candidates: SpiCandidate[]; fastestPassing: number | null } {
+  const ctl = spi.controller
+  const candidate = (f: number, prescaler: number | null): SpiCandidate => {
+    const checks = ev.evaluate(f)
+    const w = ev.worstOf(checks)
     return { sclkHz: f, prescaler, worstSlack: w.slack, worstCheck: w.id, pass: checks.every((c) => c.pass) }
   }
+  const candidates =
+    ctl.clockHz !== undefined
+      ? [...new Set(ctl.prescalers ?? DEFAULT_PRESCALERS)].sort((a, b) => a - b).map((p) => candidate(ctl.clockHz! / p, p))
+      : STANDARD_SCLK.map((f) => candidate(f, null))
   let fastestPassing: number | null = null
-  for (let i = 0; i < candidates.length; i++) {
-    const c = candidates[i]!
+  candidates.forEach((c, i) => {
     if (c.pass && (fastestPassing === null || c.sclkHz > candidates[fastestPassing]!.sclkHz)) fastestPassing = i
-  }
+  })
+  return { candidates, fastestPassing }
+}
 
-  const checks = evaluate(spi.sclkHz)
-  const worst = worstOf(checks)
-  const broken = link.channels.map((ch, i) => (notFunctional[i] ? `channel '${ch.id}': ${notFunctional[i]}` : null)).filter((x): x is string => x !== null)
+/**
+ * Slack of every SPI check, the maximum SCLK and the candidate table for an SPI link,
+ * given the chain result of each of its channels (matched by channel id).
+ */
+export function analyzeSpi(link: Link, chains: ChainResult[], notFunctional: (string | null)[] = []): SpiResult {
+  const spi = link.spi
+  if (!spi) throw new Error('spi: an SPI link needs spi settings')
+  const warnings: Warning[] = []
+  const assumptions = [
+    ...SPI_ASSUMPTIONS,
+    ...(spi.requiredSlackFraction ? [`SPI: each check that scales with the clock keeps at least ${Math.round(spi.requiredSlackFraction * 100)} % of the half period as slack (and every check at least the fixed required slack).`] : []),
+    SKEW_ASSUMPTION,
+  ]
+  const [sclk, mosi, miso, cs] = (['sclk', 'mosi', 'miso', 'cs'] as const).map((role) => pathFor(link, chains, role, warnings))
+  if (!sclk || !mosi || !miso) throw new Error('spi: an SPI link needs sclk, mosi and miso channels')
+  if (!cs) assumptions.push('SPI: there is no cs channel, so chip select is taken as not isolated (zero delay).')
+  const leading: Dir = spi.cpol === 0 ? 'rise' : 'fall'
+  const trailing = flip(leading)
+  const x: SpiContext = { spi, sclk, mosi, miso, cs: cs ?? null, leading, trailing, sampleEdge: spi.cpha === 0 ? leading : trailing, launchEdge: spi.cpha === 0 ? trailing : leading }
+
+  const roundTrip = misoRoundTrip(x)
+  const lines = new Map<SpiCheckId, Line>(Object.entries({ ...mosiChecks(x), ...sclkWidthChecks(x), ...misoChecks(x, roundTrip), ...csChecks(x) }) as [SpiCheckId, Line][])
+  const ordered = new Map<SpiCheckId, Line>(SPI_CHECK_IDS.map((id) => [id, lines.get(id)!]))
+  const pulse = pulseWidthCheck(link, x)
+  if (pulse) ordered.set('pulse-width', pulse)
+
+  const required = spi.requiredSlack ?? 0
+  const fraction = spi.requiredSlackFraction ?? 0
+  const ev = spiEvaluator(ordered, required, fraction)
+  const { maxSclkHz, limitingCheck } = maxSclk(ordered, required, fraction, warnings)
+  const { candidates, fastestPassing } = spiCandidates(spi, ev)
+
+  const checks = ev.evaluate(spi.sclkHz)
+  const worst = ev.worstOf(checks)
+  const broken = link.channels.map((ch, i) => (notFunctional[i] ? `channel '${ch.id}': ${notFunctional[i]}` : null)).filter((r): r is string => r !== null)
   const noSlackReason = broken.length ? `the link cannot carry data (${broken.join('; ')})` : null
   if (noSlackReason) for (const c of candidates) c.pass = false
   return {

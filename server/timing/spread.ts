@@ -229,72 +229,60 @@ function buildDirection(link: Link, ci: number, r: UartChannelResult): Direction
   }
 }
 
-/**
- * Monte Carlo spread study of a UART link: the distribution of the frame's worst margin.
- * @returns trials, failures (worst margin below 0 UI), failFraction, quantiles and a histogram
- */
-export function spreadStudy(input: LinkInput | Link, options: SpreadStudyOptions = {}): SpreadStudyResult {
-  const link = parseLink(input)
+/** The study's options with their defaults, each checked (an EngineInputError names the option). */
+function spreadOptions(options: SpreadStudyOptions) {
   const trials = options.trials ?? 10000
   const seed = options.seed ?? 1
-  const normal = (options.distribution ?? 'uniform') === 'normal'
   const bins = options.bins ?? 40
   if (!Number.isInteger(trials) || trials < 1 || trials > 1e6) throw new EngineInputError(['trials'], 'trials must be an integer from 1 to 1 000 000')
   if (!Number.isFinite(seed)) throw new EngineInputError(['seed'], 'seed must be a finite number')
   if (!Number.isInteger(bins) || bins < 1 || bins > 1000) throw new EngineInputError(['bins'], 'bins must be an integer from 1 to 1000')
-  if (link.protocol !== 'uart' || !link.uart)
-    throw new EngineInputError(['protocol'], 'the spread study covers UART links (clocks, detection latency and per-bit margins); SPI links are judged by their worst-case slacks')
+  return { trials, seed, bins, normal: (options.distribution ?? 'uniform') === 'normal' }
+}
 
-  const analysis = analyzeParsedLink(link)
-  const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)
-  const dirs = uartIdx.map((ci, n) => buildDirection(link, ci, analysis.uart!.byChannel[n]!))
-  const baud = link.uart.baud
-  const T = 1 / baud
-  const rng = createRng(seed)
-  const results = new Float64Array(trials)
-  const maxEdges = Math.max(...dirs.map((d) => d.edges))
-  const J = new Float64Array(maxEdges)
-
-  const t0 = performance.now()
-  for (let t = 0; t < trials; t++) {
-    let worst = Infinity
-    for (const d of dirs) {
-      const pPhys = samplePwd(d.chain, rng, normal)
-      const P = d.invert ? -pPhys : pPhys
-      const eTx = d.txErr[0] + (d.txErr[1] - d.txErr[0]) * rng.next()
-      const eRx = d.rxErr[0] + (d.rxErr[1] - d.rxErr[0]) * rng.next()
-      const Ttx = T / (1 + eTx)
-      const Trx = T / (1 + eRx)
-      const L = d.latency * Trx * rng.next()
-      const sig = d.chain.jitterRms
-      const pk = d.chain.jitterPeak
-      if (sig > 0 || pk > 0) for (let j = 0; j < d.edges; j++) J[j] = sig * rng.normal() + pk * (2 * rng.next() - 1)
-      else J.fill(0)
-      const j0 = J[0]!
-      // rising code 2 (both directions seen): the start is latest, the end earliest, with max(P, 0) / min(P, 0)
-      const pLate = P > 0 ? P : 0
-      const pEarly = P < 0 ? P : 0
-      const e = d.early
-      for (let i = 0; i < e.ce.length; i++) {
-        const edge = e.edge[i]!
-        const code = e.rising[i]!
-        const start = edge === 0 ? 0 : e.pos[i]! * Ttx + (code === 0 ? 0 : code === 1 ? P : pLate) + J[edge]! - j0
-        const m = e.ce[i]! * Trx + L - start
-        if (m < worst) worst = m
-      }
-      const l = d.late
-      for (let i = 0; i < l.cl.length; i++) {
-        const code = l.rising[i]!
-        const end = l.pos[i]! * Ttx + (code === 0 ? 0 : code === 1 ? P : pEarly) + J[l.edge[i]!]! - j0
-        const m = end - (l.cl[i]! * Trx + L)
-        if (m < worst) worst = m
-      }
-    }
-    results[t] = worst / T
+/**
+ * One trial of one direction: a PWD, both clock errors, a detection latency and every
+ * edge's jitter drawn; the frame's worst margin over every early and late case, seconds.
+ * `J` is scratch space for the edges' jitter.
+ */
+function trialWorstMargin(d: DirectionPlan, T: number, rng: ReturnType<typeof createRng>, normal: boolean, J: Float64Array): number {
+  const pPhys = samplePwd(d.chain, rng, normal)
+  const P = d.invert ? -pPhys : pPhys
+  const eTx = d.txErr[0] + (d.txErr[1] - d.txErr[0]) * rng.next()
+  const eRx = d.rxErr[0] + (d.rxErr[1] - d.rxErr[0]) * rng.next()
+  const Ttx = T / (1 + eTx)
+  const Trx = T / (1 + eRx)
+  const L = d.latency * Trx * rng.next()
+  const sig = d.chain.jitterRms
+  const pk = d.chain.jitterPeak
+  if (sig > 0 || pk > 0) for (let j = 0; j < d.edges; j++) J[j] = sig * rng.normal() + pk * (2 * rng.next() - 1)
+  else J.fill(0)
+  const j0 = J[0]!
+  // rising code 2 (both directions seen): the start is latest, the end earliest, with max(P, 0) / min(P, 0)
+  const pLate = P > 0 ? P : 0
+  const pEarly = P < 0 ? P : 0
+  let worst = Infinity
+  const e = d.early
+  for (let i = 0; i < e.ce.length; i++) {
+    const edge = e.edge[i]!
+    const code = e.rising[i]!
+    const start = edge === 0 ? 0 : e.pos[i]! * Ttx + (code === 0 ? 0 : code === 1 ? P : pLate) + J[edge]! - j0
+    const m = e.ce[i]! * Trx + L - start
+    if (m < worst) worst = m
   }
-  const elapsedMs = performance.now() - t0
+  const l = d.late
+  for (let i = 0; i < l.cl.length; i++) {
+    const code = l.rising[i]!
+    const end = l.pos[i]! * Ttx + (code === 0 ? 0 : code === 1 ? P : pEarly) + J[l.edge[i]!]! - j0
+    const m = end - (l.cl[i]! * Trx + L)
+    if (m < worst) worst = m
+  }
+  return worst
+}
 
-  const req = link.uart.requiredMarginUi
+/** The distribution of the trials' worst margins (UI): failures, below-required count, quantiles, mean. */
+function summariseTrials(results: Float64Array, req: number) {
+  const trials = results.length
   let failures = 0
   let below = 0
   let sum = 0
@@ -307,28 +295,52 @@ export function spreadStudy(input: LinkInput | Link, options: SpreadStudyOptions
   const sorted = results.slice().sort()
   const q = (p: number) => quantileSorted(sorted, p)
   return {
+    failures,
+    below,
+    sorted,
+    worstMarginUi: { min: sorted[0]!, p1: q(0.01), p5: q(0.05), p25: q(0.25), p50: q(0.5), p75: q(0.75), p95: q(0.95), p99: q(0.99), max: sorted[trials - 1]!, mean: sum / trials },
+  }
+}
+
+/**
+ * Monte Carlo spread study of a UART link: the distribution of the frame's worst margin.
+ * @returns trials, failures (worst margin below 0 UI), failFraction, quantiles and a histogram
+ */
+export function spreadStudy(input: LinkInput | Link, options: SpreadStudyOptions = {}): SpreadStudyResult {
+  const link = parseLink(input)
+  const { trials, seed, bins, normal } = spreadOptions(options)
+  if (link.protocol !== 'uart' || !link.uart)
+    throw new EngineInputError(['protocol'], 'the spread study covers UART links (clocks, detection latency and per-bit margins); SPI links are judged by their worst-case slacks')
+
+  const analysis = analyzeParsedLink(link)
+  const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)
+  const dirs = uartIdx.map((ci, n) => buildDirection(link, ci, analysis.uart!.byChannel[n]!))
+  const T = 1 / link.uart.baud
+  const rng = createRng(seed)
+  const results = new Float64Array(trials)
+  const J = new Float64Array(Math.max(...dirs.map((d) => d.edges)))
+  const t0 = performance.now()
+  for (let t = 0; t < trials; t++) {
+    let worst = Infinity
+    for (const d of dirs) worst = Math.min(worst, trialWorstMargin(d, T, rng, normal, J))
+    results[t] = worst / T
+  }
+  const elapsedMs = performance.now() - t0
+
+  const req = link.uart.requiredMarginUi
+  const sum = summariseTrials(results, req)
+  return {
     engineVersion: ENGINE_VERSION,
     trials,
     seed,
     distribution: normal ? 'normal' : 'uniform',
-    failures,
-    failFraction: failures / trials,
-    belowRequired: below,
-    belowRequiredFraction: below / trials,
+    failures: sum.failures,
+    failFraction: sum.failures / trials,
+    belowRequired: sum.below,
+    belowRequiredFraction: sum.below / trials,
     requiredMarginUi: req,
-    worstMarginUi: {
-      min: sorted[0]!,
-      p1: q(0.01),
-      p5: q(0.05),
-      p25: q(0.25),
-      p50: q(0.5),
-      p75: q(0.75),
-      p95: q(0.95),
-      p99: q(0.99),
-      max: sorted[trials - 1]!,
-      mean: sum / trials,
-    },
-    histogram: histogram(sorted, bins),
+    worstMarginUi: sum.worstMarginUi,
+    histogram: histogram(sum.sorted, bins),
     channels: uartIdx.map((i) => link.channels[i]!.id),
     elapsedMs,
   }

@@ -80,3 +80,23 @@ describe('layer rules', () => {
     expect(cycles).toEqual([])
   })
 })
+
+describe('function size (issue 12)', () => {
+  it('no function in server/ or shared/ runs over 80 lines: each reads as one step of its method', async () => {
+    const ts = (await import('typescript')).default
+    const long: string[] = []
+    for (const file of [...filesUnder('server'), ...filesUnder('shared')].filter((f) => f.endsWith('.ts'))) {
+      const src = ts.createSourceFile(file, readFileSync(join(ROOT, file), 'utf8'), ts.ScriptTarget.Latest, true)
+      const visit = (n: import('typescript').Node) => {
+        if (ts.isFunctionDeclaration(n) || ts.isMethodDeclaration(n) || ts.isArrowFunction(n) || ts.isFunctionExpression(n)) {
+          const a = src.getLineAndCharacterOfPosition(n.getStart()).line
+          const b = src.getLineAndCharacterOfPosition(n.getEnd()).line
+          if (b - a + 1 > 80) long.push(`${file}:${a + 1} (${b - a + 1} lines)`)
+        }
+        ts.forEachChild(n, visit)
+      }
+      visit(src)
+    }
+    expect(long).toEqual([])
+  })
+})
