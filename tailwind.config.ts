@@ -12,10 +12,10 @@ export default <Partial<Config>>{
         mono: ['"JetBrains Mono"', ...defaultTheme.fontFamily.mono],
       },
       colors: {
-        healthy: { DEFAULT: '#0f766e', soft: '#ccfbf1' },
-        thin: { DEFAULT: '#b45309', soft: '#fef3c7' },
+        healthy: { DEFAULT: '#0d6b63', soft: '#ccfbf1' },
+        thin: { DEFAULT: '#a04a07', soft: '#fef3c7' },
         broken: { DEFAULT: '#be123c', soft: '#ffe4e6' },
-        ink: { DEFAULT: '#1e293b', muted: '#64748b' },
+        ink: { DEFAULT: '#1e293b', muted: '#56657a' },
       },
     },
   },

@@ -320,6 +320,7 @@ function adviseCircuitChanges(ctx: SweepContext, rows: PullupSweepRow[], o: Retu
   const best = bestRow === null ? null : rows[bestRow]!
   const reachedBaud = best?.maxBaud ?? null
   const options: SweepAdvice[] = []
+  const atCap = (max: number | null) => max !== null && max >= ctx.cap * (1 - 1e-9)
   const stagesWith = (replace: (stages: StageSpec[]) => void) => {
     const stages = ctx.link.channels[ctx.ci]!.stages.slice()
     if (best) stages[ctx.stageIndex] = { ...ctx.base, rl: best.rl, rLed: best.rLed ?? undefined, ledCurrent: best.rLed === null ? best.ledCurrentRequired : undefined, rbe: best.rbe ?? ctx.base.rbe }
@@ -328,7 +329,7 @@ function adviseCircuitChanges(ctx: SweepContext, rows: PullupSweepRow[], o: Retu
   }
   const judge = (change: SweepAdvice['change'], description: string, stages: StageSpec[]): SweepAdvice => {
     const e = evaluateStages(ctx, stages)
-    return { change, description, marginUi: e.marginUi, maxBaud: e.maxBaud, meetsTarget: e.marginUi !== null && e.marginUi >= ctx.requiredMarginUi }
+    return { change, description, marginUi: e.marginUi, maxBaud: e.maxBaud, maxBaudCapped: atCap(e.maxBaud), meetsTarget: e.marginUi !== null && e.marginUi >= ctx.requiredMarginUi }
   }
   if (ctx.base.rbe === undefined) {
     // a part with a base pin: the E12 RBE that gives the best margin at the best row's pull-up
@@ -342,6 +343,7 @@ function adviseCircuitChanges(ctx: SweepContext, rows: PullupSweepRow[], o: Retu
         description: `A coupler with a base pin and a ${formatEng(rbe, 'Ω')} base-emitter resistor at RL ${formatEng(row.rl, 'Ω')}, LED resistor ${formatEng(row.rLed, 'Ω')} (hFE ${ctx.base.hfe ?? 'assumed'}).`,
         marginUi: row.marginUi,
         maxBaud: row.maxBaud,
+        maxBaudCapped: atCap(row.maxBaud),
         meetsTarget: row.meetsTarget,
       }
       if (!pick || (a.marginUi ?? -Infinity) > (pick.marginUi ?? -Infinity)) pick = a
@@ -371,6 +373,7 @@ function adviseCircuitChanges(ctx: SweepContext, rows: PullupSweepRow[], o: Retu
       description: `Run the link at ${formatEng(reachedBaud, 'Bd')} or below: the fastest a pull-up within ratings reaches (RL ${formatEng(best!.rl, 'Ω')}).`,
       marginUi: null,
       maxBaud: reachedBaud,
+      maxBaudCapped: false,
       meetsTarget: false,
     })
   return { bestRow, reachedBaud, options }

@@ -65,8 +65,8 @@ export function bitColumns(requiredUi: number, t?: ReadingThresholds): ReportCol
   return [
     { key: 'index', label: '#', csvLabel: 'bit', numeric: true, value: (b) => b.index, width: 20, only: ['screen', 'csv'] },
     { key: 'label', label: 'Bit', csvLabel: 'label', value: (b) => b.label, width: 34 },
-    { key: 'early', label: 'Early margin', csvLabel: 'early margin (s)', numeric: true, value: (b) => b.earlyMargin, text: (b) => `${s(b.earlyMargin)} · ${formatUi(b.earlyMarginUi)}`, width: 96 },
-    { key: 'late', label: 'Late margin', csvLabel: 'late margin (s)', numeric: true, value: (b) => b.lateMargin, text: (b) => (b.lateMargin === null ? 'no end' : `${s(b.lateMargin)} · ${formatUi(b.lateMarginUi)}`), width: 96 },
+    { key: 'early', label: 'Early margin', csvLabel: 'early margin (s)', numeric: true, value: (b) => b.earlyMargin, text: (b) => s(b.earlyMargin), width: 60 },
+    { key: 'late', label: 'Late margin', csvLabel: 'late margin (s)', numeric: true, value: (b) => b.lateMargin, text: (b) => (b.lateMargin === null ? 'no end' : s(b.lateMargin)), width: 60 },
     { key: 'marginS', label: 'Margin (s)', csvLabel: 'margin (s)', numeric: true, value: (b) => b.margin, only: ['csv'] },
     { key: 'margin', label: 'Margin', csvLabel: 'margin (UI)', numeric: true, value: (b) => b.marginUi, text: (b) => formatUi(b.marginUi), state, width: 56 },
     { key: 'state', label: 'State', value: (b) => MARGIN_LABEL[state(b)], state, width: 46 },

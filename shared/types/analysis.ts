@@ -538,6 +538,8 @@ export interface SweepAdvice {
   marginUi: number | null
   /** the link's maximum baud with the change */
   maxBaud: number | null
+  /** that maximum is the search limit (the link is faster still): read it as "at least" */
+  maxBaudCapped: boolean
   meetsTarget: boolean
 }
 
