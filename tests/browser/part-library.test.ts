@@ -188,7 +188,7 @@ describe('the part library', () => {
     await page.goto(`${baseURL}/links/${linkId}`, { waitUntil: 'networkidle' })
     const stage = page.getByTestId('stage-0').first()
     const stageName = await stage.getByLabel('Name', { exact: true }).inputValue()
-    await stage.getByRole('button', { name: 'Save to part library, stage 1' }).click()
+    await stage.getByRole('button', { name: 'Stage 1: Save to part library' }).click()
     const panel = stage.getByTestId('save-to-library')
     await expect(panel.getByLabel('Part name').inputValue()).resolves.toBe(stageName)
     await panel.getByLabel('Part name').fill('Telemetry coupler as fitted')
