@@ -10,6 +10,12 @@ PORT=${PORT:-3000}
 HOST=${HOST:-127.0.0.1}
 export BITSLACK_ENV=${BITSLACK_ENV:-demo}
 
+# another server already answering on the port would be mistaken for this one: refuse
+if (exec 3<>"/dev/tcp/$HOST/$PORT") 2>/dev/null; then
+  echo "[bitslack] port $PORT on $HOST is already in use (another Bitslack or another program): stop it, or start with PORT=<free port> npm start" >&2
+  exit 1
+fi
+
 ensure_node_modules
 stop_on_exit
 prepare_demo_database

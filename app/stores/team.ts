@@ -12,7 +12,7 @@ export interface NavPlace {
   projectName?: string
   linkId?: string
   linkName?: string
-  section?: 'projects' | 'parts' | 'members' | 'project' | 'link'
+  section?: 'projects' | 'parts' | 'members' | 'settings' | 'audit' | 'project' | 'link'
 }
 
 const ROLE_RANK: Record<Role, number> = { admin: 3, engineer: 2, reviewer: 1, viewer: 0 }

@@ -25,6 +25,7 @@ import {
   POINT_DEFAULT_LED_CURRENT,
   POINT_DEFAULT_LOAD_CAP,
   rbeDivertedCurrent,
+  phototransistorInverts,
   VBE_HIGH,
 } from '../../shared/utils/coupler'
 import { formatEng } from '../../shared/utils/units'
@@ -66,11 +67,7 @@ export function passiveDirection(wiring: 'collector' | 'emitter'): 'rise' | 'fal
   return wiring === 'emitter' ? 'fall' : 'rise'
 }
 
-/** Whether the stage inverts: collector wiring inverts, emitter does not; an LED lit by a low input flips it. */
-export function phototransistorInverts(wiring: 'collector' | 'emitter', ledOnWhen: 'high' | 'low'): boolean {
-  const wiringInverts = wiring !== 'emitter'
-  return ledOnWhen === 'low' ? !wiringInverts : wiringInverts
-}
+export { phototransistorInverts }
 
 /**
  * The model's quantities (turn-off: tplh, tr; turn-on: tphl, tf, as a collector output

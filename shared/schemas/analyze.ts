@@ -33,8 +33,8 @@ export const PullupSweepBody = z.object({
   options: PullupSweepOptions,
 })
 
-export const SpreadBody = z.object({
-  link: LinkSpec,
+/** The spread study's own options: the form checks them with this schema, the server with SpreadBody. */
+export const SpreadOptions = z.object({
   trials: z
     .number({ error: 'trials is required' })
     .int('trials must be an integer')
@@ -46,3 +46,4 @@ export const SpreadBody = z.object({
   /** histogram bins (default 40) */
   bins: z.number().int('bins must be an integer').min(1, 'bins must be at least 1').max(1000, 'bins must be at most 1000').optional(),
 })
+export const SpreadBody = SpreadOptions.extend({ link: LinkSpec })

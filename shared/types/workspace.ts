@@ -2,10 +2,7 @@
 import type { Link, Protocol, StageSpec } from '../schemas/link'
 import type { PartCategory } from '../schemas/part'
 import type { Role } from '../schemas/roles'
-
 import type { Verdict } from './analysis'
-
-export type { Verdict }
 
 /** The analysis of a link condensed at save time (stored on the link row). */
 export interface LinkSummaryFields {

@@ -15,7 +15,7 @@
  */
 import type { CaptureResult, SummaryStats } from '../types/capture'
 import type { CharacterizationPoint, DelaySpec, Link, TransitionSpec } from '../schemas/link'
-import { ledCurrentOf } from './coupler'
+import { ledCurrentOf, phototransistorInverts } from './coupler'
 
 export type ApplyMode = 'typical' | 'characterization'
 
@@ -43,7 +43,22 @@ export function transitionOf(s: SummaryStats): TransitionSpec {
   return { typ: s.mean, max: Math.max(s.max, s.mean + 3 * s.sigma) }
 }
 
-const us = (s: number) => `${(s * 1e6).toPrecision(4)} us`
+const us = (s: number) => `${(s * 1e6).toPrecision(4)} µs`
+
+/**
+ * The capture's measured polarity against the stage it would be applied to: a sentence
+ * when they differ (the wrong channels were paired, or the stage is wired the other way),
+ * null when they agree or the capture did not pair its channels. Shown before applying.
+ */
+export function polarityMismatch(spec: Link, at: StageRef, result: CaptureResult): string | null {
+  const p = result.pairing
+  const stage = spec.channels[at.channel]?.stages[at.stage]
+  if (!p || !stage) return null
+  const stageInverts =
+    stage.kind === 'digital' ? stage.inverting : stage.kind === 'phototransistor' ? phototransistorInverts(stage.wiring ?? 'collector', stage.ledOnWhen ?? 'high') : null
+  if (stageInverts === null || stageInverts === p.inverting) return null
+  return `the capture shows a${p.inverting ? 'n inverting' : ' non-inverting'} path but the stage is set ${stageInverts ? 'inverting' : 'non-inverting'}; check the wiring or the channels`
+}
 
 export function applyCaptureToStage(spec: Link, at: StageRef, result: CaptureResult, mode: ApplyMode, opts: { rl?: number } = {}): AppliedCapture {
   const p = result.pairing
@@ -56,6 +71,8 @@ export function applyCaptureToStage(spec: Link, at: StageRef, result: CaptureRes
   if (!stage) throw new Error(`channel ${at.channel + 1} has no stage ${at.stage + 1}`)
   const changes: string[] = []
   const warnings: string[] = [...result.warnings]
+  const mismatch = polarityMismatch(spec, at, result)
+  if (mismatch) warnings.push(mismatch)
   if (mode === 'typical') {
     if (stage.kind !== 'digital') throw new Error(`typical values apply to a digital stage; "${stage.name}" is ${stage.kind === 'phototransistor' ? 'a phototransistor stage: add a characterisation point instead' : `a ${stage.kind} stage`}`)
     stage.tplh = delayCorners(p.tPLH)
@@ -69,7 +86,6 @@ export function applyCaptureToStage(spec: Link, at: StageRef, result: CaptureRes
       stage.tf = transitionOf(out.tf)
       changes.push(`tf ${us(stage.tf.typ)} typ, ${us(stage.tf.max)} max`)
     }
-    if (stage.inverting !== p.inverting) warnings.push(`the capture shows a${p.inverting ? 'n inverting' : ' non-inverting'} path but the stage is set ${stage.inverting ? 'inverting' : 'non-inverting'}; check the wiring or the channels`)
   } else {
     if (stage.kind !== 'phototransistor') throw new Error(`a characterisation point applies to a phototransistor stage; "${stage.name}" is a ${stage.kind} stage`)
     const rl = opts.rl

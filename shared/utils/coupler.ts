@@ -90,3 +90,9 @@ export function ctrTypOf(s: { ctrMin: number; ctrTyp?: number }): number {
 export function rbeDivertedCurrent(rbe: number | undefined, hfe: number | undefined, vbe: number): number {
   return rbe === undefined ? 0 : ((hfe ?? DEFAULT_HFE) * vbe) / rbe
 }
+
+/** Whether a phototransistor stage inverts: collector wiring inverts, emitter does not; an LED lit by a low input flips it. */
+export function phototransistorInverts(wiring: 'collector' | 'emitter', ledOnWhen: 'high' | 'low'): boolean {
+  const wiringInverts = wiring !== 'emitter'
+  return ledOnWhen === 'low' ? !wiringInverts : wiringInverts
+}

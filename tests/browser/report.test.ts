@@ -68,6 +68,8 @@ describe('margin report in the browser', () => {
 
     // the reviewer
     await signIn(page, world.users.reviewer.email)
+    // the header counts what waits for the reviewer
+    await expect(page.getByTestId('review-queue-count').textContent()).resolves.toMatch(/^1/)
     await page.getByTestId('review-queue-link').click()
     await page.waitForURL(/\/review-queue$/)
     await page.getByRole('link', { name: 'Gate-driver telemetry UART' }).first().waitFor()
@@ -109,6 +111,19 @@ describe('margin report in the browser', () => {
     expect(text).not.toContain('Add comment')
     await page.emulateMedia({ media: 'screen' })
     expect(consoleErrors.filter((e) => /content security policy/i.test(e))).toEqual([])
+
+    // the server's PDF: units as written and the sign-off on page 1 (issue 17)
+    const served = await page.request.get(`${baseURL}/reports/${reportId}/report.pdf`)
+    expect(served.status()).toBe(200)
+    const served1 = path.join(dir, 'served.pdf')
+    writeFileSync(served1, await served.body())
+    const all = execFileSync('pdftotext', ['-layout', served1, '-'], { encoding: 'utf8' })
+    expect(all).toMatch(/\d µs/)
+    expect(all).toContain('kΩ')
+    const page1 = execFileSync('pdftotext', ['-f', '1', '-l', '1', '-layout', served1, '-'], { encoding: 'utf8' })
+    expect(page1).toMatch(/State\s+signed off/)
+    expect(page1).toMatch(/Signed off\s+\d{4}-\d\d-\d\d \d\d:\d\d UTC by Test reviewer/)
+    expect(page1).toContain('Reviewer')
   })
 
   it('the project page shows the link’s latest revision state', async () => {
