@@ -192,11 +192,14 @@ export function uartTimelineGeometry(input: UartTimelineInput): UartTimelineGeom
   const T = input.bitTime
   const maxDelay = Math.max(0, ...input.lanes.flatMap((l) => [l.edges.rise, l.edges.fall, l.edges.riseRange?.max ?? 0, l.edges.fallRange?.max ?? 0]))
   const levels = input.backToBack ? [...input.levels, 0] : [...input.levels, 1]
-  let domain: [number, number] = [-0.4 * T, input.frameBits * T + maxDelay + 0.4 * T]
+  const frame: [number, number] = [-0.4 * T, input.frameBits * T + maxDelay + 0.4 * T]
+  let domain: [number, number] = frame
   if (input.zoomBit !== null && input.zoomBit !== undefined) {
     const k = input.zoomBit
     domain = [input.sync + (k - 0.7) * T, input.sync + (k + 1.7) * T]
   }
+  // the waveform is built over the whole frame (every edge, in order) and then clipped to the view
+  const whole: [number, number] = [Math.min(frame[0], domain[0]), Math.max(frame[1], domain[1])]
   const x0 = L.left
   const x1 = input.width - L.right
   const sx = scaleLinear().domain(domain).range([x0, x1])
@@ -211,7 +214,7 @@ export function uartTimelineGeometry(input: UartTimelineInput): UartTimelineGeom
 
   const lanes: LaneGeometry[] = input.lanes.map((lane, i) => {
     const y = L.top + i * (L.laneHeight + L.laneGap)
-    const pts = clipPoints(lanePoints(levels, T, lane, domain[0], domain[1]), domain[0], domain[1]).map(
+    const pts = clipPoints(lanePoints(levels, T, lane, whole[0], whole[1]), domain[0], domain[1]).map(
       (p) => [clampX(sx(p[0])), y + L.laneHeight - p[1] * L.laneHeight] as [number, number],
     )
     const bands = laneBands(levels, T, lane)

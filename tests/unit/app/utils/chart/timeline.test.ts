@@ -100,6 +100,26 @@ describe('uartTimelineGeometry', () => {
   })
 })
 
+describe('zoom with edges on both sides of the view', () => {
+  it('keeps every edge in order: an ideal lane zoomed to a bit is only levels and vertical steps at the two levels (issue 17)', () => {
+    const T = 1e-4
+    const ideal2: LaneInput = { name: 'tx', inverted: false, edges: { rise: 0, fall: 0, tr: 0, tf: 0, riseShape: 'ramp', fallShape: 'ramp' } }
+    const bits = [{ index: 4, label: 'd3', marginUi: 0.3, earlyMargin: 3e-5, lateMargin: 3e-5, samples: { earliest: 4.5e-4, latest: 4.6e-4 }, validFrom: 4e-4, validTo: 5e-4 }]
+    // 0x55: start 0, then 1 0 1 0 1 0 1 0, stop 1: an edge at every boundary
+    const levels = levelsOf(0b1010101010, 10)
+    const whole = uartTimelineGeometry({ bitTime: T, frameBits: 10, levels, backToBack: false, lanes: [ideal2], sync: 0, bits, requiredUi: 0.1, width: 800 })
+    const z = uartTimelineGeometry({ bitTime: T, frameBits: 10, levels, backToBack: false, lanes: [ideal2], sync: 0, bits, requiredUi: 0.1, width: 800, zoomBit: 4 })
+    const pts = (d: string) => [...d.matchAll(/[ML]([\d.]+),([\d.]+)/g)].map((m) => [Number(m[1]), Number(m[2])])
+    const zp = pts(z.lanes[0]!.path)
+    const ys = new Set(pts(whole.lanes[0]!.path).map((p) => p[1]))
+    expect(zp.every((p) => ys.has(p[1]!))).toBe(true)
+    for (let i = 1; i < zp.length; i++) expect(zp[i]![0] === zp[i - 1]![0] || zp[i]![1] === zp[i - 1]![1]).toBe(true)
+    expect(zp.every((p, i) => i === 0 || p[0]! >= zp[i - 1]![0]!)).toBe(true)
+    // the view holds the edges at 4T and 5T: four vertical steps' ends
+    expect(zp.filter((p, i) => i > 0 && p[0] === zp[i - 1]![0]).length).toBeGreaterThanOrEqual(2)
+  })
+})
+
 describe('clipPoints', () => {
   it('interpolates the level at both ends of the view and keeps the points inside', () => {
     const pts: [number, number][] = [[0, 0], [10, 0], [12, 1], [30, 1], [31, 0], [50, 0]]
