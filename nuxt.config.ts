@@ -49,6 +49,8 @@ export default defineNuxtConfig({
   },
   runtimeConfig: {
     databaseUrl: '',
+    // the browser drops the sealed cookie after the longest a session can live; the server-side row decides earlier (server/domain/sessions.ts)
+    session: { maxAge: 60 * 60 * 24 * 7 },
     public: { appVersion: process.env.npm_package_version || '0.1.0' },
   },
   nitro: {

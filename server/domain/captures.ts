@@ -101,7 +101,20 @@ export function listCaptures(linkId: number) {
 }
 
 /** Captures left "queued" (a crash between commit and send): queue them again. */
+/** A running extraction writes at least this often (progress or heartbeat); one silent longer was interrupted. */
+export const EXTRACTION_SILENCE_MS = 45_000
+
+/**
+ * Queue again every capture a crash left behind: those still queued, and those "running"
+ * whose worker has been silent for EXTRACTION_SILENCE_MS (its process died); these are
+ * marked queued with the reason, which the capture list shows as "retrying".
+ */
 export async function requeueStrandedCaptures(): Promise<number> {
+  const silentSince = new Date(Date.now() - EXTRACTION_SILENCE_MS)
+  await Capture.update(
+    { status: 'queued', progress: 0, error: 'the extraction was interrupted (the server stopped); retrying' },
+    { where: { status: 'running', updatedAt: { [Op.lt]: silentSince } } },
+  )
   const stranded = await Capture.findAll({ where: { status: { [Op.in]: ['queued'] } }, attributes: ['id'] })
   for (const c of stranded) await enqueueCaptureExtraction(c.id)
   return stranded.length

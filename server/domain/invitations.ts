@@ -16,6 +16,7 @@ import { invitationMail } from '../mail/templates'
 import { appUrl } from '../utils/settings'
 import { hashToken, newToken } from '../utils/tokens'
 import { audit } from './audit'
+import { requireStrongPassword } from '../utils/password-strength'
 
 /** An invitation link is valid this long. */
 export const INVITATION_LIFETIME_MS = 7 * 24 * 60 * 60 * 1000
@@ -96,6 +97,7 @@ export async function acceptInvitation(token: string, body: AcceptInvitationBody
       if (!name.success) throw InvalidError.fromZod(name.error, ['name'])
       const password = NewPassword.safeParse(body.password)
       if (!password.success) throw InvalidError.fromZod(password.error, ['password'])
+      requireStrongPassword(password.data, [name.data, invitation.email])
       user = await User.create({ name: name.data, email: invitation.email, passwordHash: await hashPassword(password.data) }, { transaction })
     }
     const membership = await Membership.create({ teamId: invitation.teamId, userId: user.id, role: invitation.role }, { transaction })

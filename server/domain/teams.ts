@@ -4,6 +4,7 @@ import { Membership, User } from '../db/models'
 import { useDb } from '../utils/db'
 import { ConflictError, NotFoundError } from '../utils/errors'
 import { audit } from './audit'
+import { endAllSessions } from './sessions'
 
 export function listMembers(teamId: number) {
   return Membership.findAll({
@@ -38,8 +39,9 @@ export async function changeRole(teamId: number, memberId: number, role: Role, a
   })
 }
 
+/** Remove a member; their sessions end (a removed member signs in again and sees only their other teams). */
 export async function removeMember(teamId: number, memberId: number, actorId: number) {
-  await useDb().transaction(async (transaction) => {
+  const removedUserId = await useDb().transaction(async (transaction) => {
     const admins = await lockAdmins(teamId, transaction)
     const member = await Membership.findOne({ where: { id: memberId, teamId }, transaction, lock: transaction.LOCK.UPDATE })
     if (!member) throw new NotFoundError('member')
@@ -47,5 +49,7 @@ export async function removeMember(teamId: number, memberId: number, actorId: nu
       throw new ConflictError('a team needs at least one admin: make someone else admin first')
     await member.destroy({ transaction })
     await audit(transaction, { teamId, userId: actorId, action: 'member.remove', entity: 'member', entityId: member.id, detail: { userId: member.userId, role: member.role } })
+    return member.userId
   })
+  await endAllSessions(removedUserId)
 }

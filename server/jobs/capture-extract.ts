@@ -15,12 +15,18 @@ export async function extractCapture(captureId: number, opts: { lastAttempt?: bo
   const capture = await Capture.findByPk(captureId)
   if (!capture || capture.status === 'done' || capture.status === 'failed') return
   await capture.update({ status: 'running', progress: 0, error: null })
+  // a heartbeat while the file is read: a worker silent for longer was interrupted (requeueStrandedCaptures)
+  const heartbeat = setInterval(() => {
+    Capture.sequelize!.query("UPDATE captures SET updated_at = now() WHERE id = :id AND status = 'running'", { replacements: { id: captureId } }).catch(() => undefined)
+  }, 10_000)
   try {
     await analyse(capture)
   } catch (err) {
     // the queue retries; after the last attempt the user sees why instead of "running" forever
     if (opts.lastAttempt) await capture.update({ status: 'failed', error: `the extraction failed after several attempts: ${err instanceof Error ? err.message : String(err)}` })
     throw err
+  } finally {
+    clearInterval(heartbeat)
   }
 }
 

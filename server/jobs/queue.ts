@@ -11,6 +11,9 @@ export const CAPTURE_EXTRACT = 'capture-extract'
 /** Deliver one rendered e-mail: data QueuedMail (server/mail/types.ts). */
 export const MAIL_SEND = 'mail-send'
 
+/** Look up an address asking for a password reset and mail a link when it has an account: data { email }. */
+export const RESET_REQUEST = 'reset-request'
+
 let boss: PgBoss | undefined
 /** Resolves once the queue has started (mail sent during boot waits for it). */
 let started: Promise<PgBoss> | undefined
@@ -28,6 +31,7 @@ export async function startQueue(
   handlers: {
     extractCapture: (captureId: number, opts: { lastAttempt: boolean }) => Promise<void>
     deliverMail: (mail: QueuedMail) => Promise<void>
+    resetRequest: (email: string) => Promise<void>
   },
 ): Promise<PgBoss> {
   const b = new PgBoss({ connectionString, max: 4, application_name: 'bitslack-jobs' })
@@ -35,13 +39,17 @@ export async function startQueue(
   await b.start()
   // stately: at most one queued and one running job per capture (singletonKey), so a
   // re-send after a crash or by a second instance never runs the same capture twice at once
-  await b.createQueue(CAPTURE_EXTRACT, { name: CAPTURE_EXTRACT, policy: 'stately', retryLimit: RETRY_LIMIT, retryDelay: 5, expireInSeconds: 15 * 60 })
+  await b.createQueue(CAPTURE_EXTRACT, { name: CAPTURE_EXTRACT, policy: 'stately', retryLimit: RETRY_LIMIT, retryDelay: 5, expireInSeconds: 5 * 60 })
   await b.work<{ captureId: number }>(CAPTURE_EXTRACT, { batchSize: 1, pollingIntervalSeconds: 1, includeMetadata: true }, async ([job]) => {
     if (job) await handlers.extractCapture(job.data.captureId, { lastAttempt: job.retryCount >= RETRY_LIMIT })
   })
   await b.createQueue(MAIL_SEND, { name: MAIL_SEND, policy: 'standard', ...MAIL_RETRY })
   await b.work<QueuedMail>(MAIL_SEND, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
     if (job) await handlers.deliverMail(job.data)
+  })
+  await b.createQueue(RESET_REQUEST, { name: RESET_REQUEST, policy: 'standard', retryLimit: 3, retryDelay: 5, expireInSeconds: 60 })
+  await b.work<{ email: string }>(RESET_REQUEST, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
+    if (job) await handlers.resetRequest(job.data.email)
   })
   boss = b
   whenStarted()
@@ -53,6 +61,12 @@ export async function startQueue(
 export async function enqueueMail(mail: QueuedMail): Promise<void> {
   const b = boss ?? (await whenStarted())
   await b.send(MAIL_SEND, mail, MAIL_RETRY)
+}
+
+/** Queue a password-reset request (known and unknown addresses alike). */
+export async function enqueueResetRequest(email: string): Promise<void> {
+  const b = boss ?? (await whenStarted())
+  await b.send(RESET_REQUEST, { email }, { retryLimit: 3, retryDelay: 5, expireInSeconds: 60 })
 }
 
 /**

@@ -19,6 +19,33 @@ export function passwordResetMail(user: Person, url: string): MailContent {
   }
 }
 
+/** Confirm a new account (one day, once). */
+export function signUpConfirmMail(user: Person, url: string): MailContent {
+  return {
+    to: user.email,
+    subject: 'Confirm your Bitslack account',
+    greeting: `Hello ${user.name},`,
+    paragraphs: ['Someone (we hope you) asked for a Bitslack account with this address. Confirm it with the link below: your team is created and you are signed in.', 'If you did not ask for this, ignore this mail: no account is created.'],
+    action: { label: 'Confirm my account', url },
+    footnote: 'The link works once and expires in one day.',
+  }
+}
+
+/** Someone tried to sign up with an address that already has an account: tell its owner, nobody else. */
+export function signUpExistingMail(user: Person, signInUrl: string, resetUrl: string): MailContent {
+  return {
+    to: user.email,
+    subject: 'Your Bitslack account already exists',
+    greeting: `Hello ${user.name},`,
+    paragraphs: [
+      'Someone (perhaps you) asked for a new Bitslack account with this address, which already has one. Nothing was changed.',
+      `If it was you, sign in at ${signInUrl}; if you forgot the password, choose a new one at ${resetUrl}.`,
+    ],
+    action: { label: 'Sign in', url: signInUrl },
+    footnote: 'If it was not you, ignore this mail.',
+  }
+}
+
 /** An invitation to join a team (seven days, once). */
 export function invitationMail(to: string, inviter: { name: string }, teamName: string | null, role: string, url: string): MailContent {
   return {

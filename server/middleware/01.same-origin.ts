@@ -21,5 +21,6 @@ export default defineEventHandler((event) => {
   } catch {
     return refuse()
   }
-  if (originHost !== getRequestHost(event, { xForwardedHost: true })) refuse()
+  // X-Forwarded-Host names the public host only behind a proxy that sets it (BITSLACK_TRUST_PROXY=1)
+  if (originHost !== getRequestHost(event, { xForwardedHost: trustProxy() })) refuse()
 })

@@ -9,6 +9,7 @@ import type { User as SessionUser } from '#auth-utils'
 import { can, type Action } from '../../shared/permissions'
 import type { Role } from '../../shared/schemas/roles'
 import { Link, Membership, Part, Project, User } from '../db/models'
+import { createSession, resolveSession } from '../domain/sessions'
 import { ForbiddenError, NotFoundError, UnauthorizedError } from './errors'
 
 export interface Access {
@@ -25,39 +26,30 @@ export async function requireUser(event: H3Event): Promise<SessionUser> {
 }
 
 /**
- * When each user's sessions became invalid (password reset), cached for a few seconds per
- * process so that a burst of requests costs one query; another instance sees a reset
- * within that time.
+ * The signed-in user or null (public routes that behave differently when signed in). The
+ * cookie's session token is resolved against user_sessions on every request (one indexed
+ * lookup): a session that was signed out, expired or idled out is cleared here.
  */
-const REVOCATION_TTL_MS = 5000
-const revocations = new Map<number, { validAfter: number; readAt: number }>()
-
-async function sessionsValidAfter(userId: number): Promise<number> {
-  const cached = revocations.get(userId)
-  if (cached && Date.now() - cached.readAt < REVOCATION_TTL_MS) return cached.validAfter
-  const row = await User.findByPk(userId, { attributes: ['id', 'sessionsValidAfter'] })
-  // a deleted account has no valid session at all
-  const validAfter = row ? (row.sessionsValidAfter?.getTime() ?? 0) : Number.POSITIVE_INFINITY
-  if (revocations.size > 10_000) revocations.clear()
-  revocations.set(userId, { validAfter, readAt: Date.now() })
-  return validAfter
-}
-
-/** Forget the cached revocation instant of a user (this process just changed it). */
-export function forgetSessionRevocation(userId: number) {
-  revocations.delete(userId)
-}
-
-/** The signed-in user or null (public routes that behave differently when signed in); a revoked session is cleared. */
 export async function getSessionUser(event: H3Event): Promise<SessionUser | null> {
+  if (event.context.sessionUser !== undefined) return event.context.sessionUser as SessionUser | null
   const session = await getUserSession(event)
-  if (!session.user) return null
-  const loggedInAt = typeof session.loggedInAt === 'number' ? session.loggedInAt : 0
-  if (loggedInAt < (await sessionsValidAfter(session.user.id))) {
-    await clearUserSession(event)
-    return null
-  }
-  return session.user
+  const resolved = session.user ? await resolveSession(session.secure?.sid) : null
+  if (!resolved && session.user) await clearUserSession(event)
+  event.context.sessionId = resolved?.id
+  event.context.sessionUser = resolved?.user ?? null
+  return resolved?.user ?? null
+}
+
+/** The id of this request's session row (after requireUser). */
+export function currentSessionId(event: H3Event): number | undefined {
+  return event.context.sessionId as number | undefined
+}
+
+/** Start a server-side session for the user and seal its token into the cookie. */
+export async function signInSession(event: H3Event, user: { id: number; name: string; email: string }) {
+  const token = await createSession(user.id, getHeader(event, 'user-agent') ?? '', clientIp(event))
+  await replaceUserSession(event, { user: { id: user.id, name: user.name, email: user.email }, loggedInAt: Date.now(), secure: { sid: token } })
+  event.context.sessionUser = undefined
 }
 
 function allow(role: Role, action: Action) {

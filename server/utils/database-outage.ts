@@ -14,5 +14,5 @@ export function isDatabaseOutage(err: unknown): boolean {
   const code = e?.original?.code ?? e?.parent?.code ?? e?.code
   if (code && OUTAGE_CODES.has(code)) return true
   const message = e?.original?.message ?? e?.message ?? ''
-  return /Connection terminated|terminating connection|the database system is (shutting down|starting up)/i.test(message)
+  return /Connection terminated|terminating connection|the database system is (shutting down|starting up)|not queryable|connection error|Connection refused|connect ECONNREFUSED|socket hang up|Client was closed/i.test(message)
 }

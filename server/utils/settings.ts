@@ -12,8 +12,14 @@ export function appEnv(): AppEnv {
 }
 
 /** Base URL for links in e-mails (no trailing slash). */
+/** The app's public address for links in mails: APP_URL, else where this server listens (HOST and PORT). */
 export function appUrl(): string {
-  return (process.env.APP_URL || 'http://localhost:3000').replace(/\/+$/, '')
+  if (process.env.APP_URL) return process.env.APP_URL.replace(/\/+$/, '')
+  const host = process.env.HOST || process.env.NITRO_HOST || 'localhost'
+  const port = process.env.PORT || process.env.NITRO_PORT || '3000'
+  // a wildcard or loopback bind address is reached as localhost
+  const shown = ['0.0.0.0', '::', '127.0.0.1', '::1', ''].includes(host) ? 'localhost' : host
+  return `http://${shown.includes(':') ? `[${shown}]` : shown}:${port}`
 }
 
 export interface SmtpSettings {
@@ -57,12 +63,14 @@ export function trustProxy(): boolean {
 }
 
 export interface SignInLimits {
-  /** failed attempts per address within the window */
+  /** failures of one account from one client address before the back-off starts */
   perAddress: number
-  /** failed attempts per client IP within the window */
+  /** failures from one client address (all accounts) before its back-off starts */
   perIp: number
-  /** seconds */
+  /** how long a failure counts, seconds */
   windowSeconds: number
+  /** the longest back-off, seconds */
+  maxBackoffSeconds: number
 }
 
 export function signInLimits(): SignInLimits {
@@ -74,5 +82,15 @@ export function signInLimits(): SignInLimits {
     perAddress: n('BITSLACK_SIGN_IN_MAX_PER_ADDRESS', 5),
     perIp: n('BITSLACK_SIGN_IN_MAX_PER_IP', 30),
     windowSeconds: n('BITSLACK_SIGN_IN_WINDOW_SECONDS', 15 * 60),
+    maxBackoffSeconds: n('BITSLACK_SIGN_IN_MAX_BACKOFF_SECONDS', 5 * 60),
   }
+}
+
+/** Session lifetimes: absolute (from sign-in) and idle (since the last request), milliseconds. */
+export function sessionLimits(): { maxAgeMs: number; idleMs: number } {
+  const hours = (name: string, fallback: number) => {
+    const v = Number(process.env[name])
+    return (Number.isFinite(v) && v > 0 ? v : fallback) * 3_600_000
+  }
+  return { maxAgeMs: hours('BITSLACK_SESSION_MAX_AGE_HOURS', 7 * 24), idleMs: hours('BITSLACK_SESSION_IDLE_HOURS', 12) }
 }

@@ -6,12 +6,20 @@ import type { H3Event } from 'h3'
 import { z } from 'zod'
 import { InvalidError } from './errors'
 
-/** A positive integer id in a route parameter. */
-export const IdParam = z.coerce
-  .number({ error: 'must be a number' })
-  .int('must be an integer')
-  .positive('must be a positive integer')
-  .max(2 ** 31 - 1, 'is out of range')
+/**
+ * A positive integer id in a route parameter or query: strict decimal digits only (no
+ * "0x2", "1e3", " 7" or "+7", which a plain number coercion would accept).
+ */
+export const IdParam = z.union([z.number(), z.string()], { error: 'must be a positive integer' })
+  .transform((v, ctx) => {
+    const s = String(v)
+    if (!/^[1-9][0-9]{0,9}$/.test(s)) {
+      ctx.addIssue({ code: 'custom', message: 'must be a positive integer in decimal digits' })
+      return z.NEVER
+    }
+    return Number(s)
+  })
+  .pipe(z.number().max(2 ** 31 - 1, 'is out of range'))
 
 /** Route params `{ [name]: id }` for one or more id parameters. */
 export function idParams<K extends string>(...names: K[]) {
@@ -30,7 +38,17 @@ export async function validQuery<S extends z.ZodType>(event: H3Event, schema: S)
   return result.data
 }
 
+/** A JSON route reads only JSON: another content type is a 415 before anything is parsed. */
+export function requireJson(event: H3Event) {
+  const type = (getHeader(event, 'content-type') ?? '').split(';')[0]!.trim().toLowerCase()
+  const length = Number(getHeader(event, 'content-length') ?? '0')
+  const hasBody = length > 0 || getHeader(event, 'transfer-encoding') !== undefined
+  if (hasBody && type !== 'application/json' && !type.endsWith('+json'))
+    throw createError({ statusCode: 415, statusMessage: `send the body as application/json (got ${(type || 'no content type').slice(0, 60)})` })
+}
+
 export async function validBody<S extends z.ZodType>(event: H3Event, schema: S): Promise<z.output<S>> {
+  requireJson(event)
   const result = await readValidatedBody(event, (b) => schema.safeParse(b ?? {}))
   if (!result.success) throw InvalidError.fromZod(result.error)
   return result.data

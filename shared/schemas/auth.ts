@@ -10,11 +10,15 @@ export const Email = z
   .max(254, 'email is at most 254 characters')
   .pipe(z.email('email must be an e-mail address'))
 
-/** A new password: 10 to 200 characters. */
+/**
+ * A new password (ASVS 2.1.1, 2.1.2): at least 12 characters, up to 128 (any characters,
+ * spaces included). The server also checks it against common passwords and patterns
+ * (server/utils/password-strength.ts) and says why it refuses one.
+ */
 export const NewPassword = z
   .string({ error: 'password is required' })
-  .min(10, 'password must be at least 10 characters')
-  .max(200, 'password is at most 200 characters')
+  .min(12, 'password must be at least 12 characters')
+  .max(128, 'password is at most 128 characters')
 
 export const PersonName = cleanText(z.string({ error: 'name is required' }).trim().min(1, 'name is required').max(120, 'name is at most 120 characters'), 'name')
 

@@ -68,3 +68,16 @@ export interface ConfigDto {
   /** the local fake's web inbox in demo and development, null in production */
   mailInboxUrl: string | null
 }
+
+/** One signed-in browser of the user (account page). */
+export interface SessionDto {
+  id: number
+  userAgent: string
+  ip: string
+  createdAt: string
+  lastSeenAt: string
+  /** when it ends unless used again (the earlier of the absolute lifetime and the idle timeout) */
+  expiresAt: string
+  /** the session of this request */
+  current: boolean
+}

@@ -11,6 +11,10 @@ declare module '#auth-utils' {
     /** epoch milliseconds of the sign-in */
     loggedInAt?: number
   }
+  interface SecureSessionData {
+    /** the token of the server-side session row (user_sessions); never sent to the browser */
+    sid?: string
+  }
 }
 
 export {}

@@ -8,6 +8,7 @@ import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest'
 import type { Page } from 'playwright-core'
 import { TELEMETRY_LINK } from '../../server/db/seeders/demo-links'
 import { apiClient } from '../support/api'
+import { signUpConfirmed } from '../support/accounts'
 import { openBrowser, screenshot, type BrowserSession } from '../support/browser'
 import { linkIn, waitForMail } from '../support/mail'
 
@@ -34,7 +35,7 @@ let browser: BrowserSession
 async function buildDemo(): Promise<Fixture> {
   const admin = apiClient()
   const email = `admin-${tag}@harrowbay.example`
-  const signUp = await admin.post('/api/auth/sign-up', { name: 'Ada Admin', email, password: PASSWORD, teamName: 'Harrow Bay Drives' })
+  const signUp = await signUpConfirmed(admin, { name: 'Ada Admin', email, password: PASSWORD, teamName: 'Harrow Bay Drives' })
   expect(signUp.status, JSON.stringify(signUp.data)).toBeLessThan(300)
   const teamId = signUp.data.teams[0].id as number
   const project = await admin.post(`/api/teams/${teamId}/projects`, { name: 'PX-7 pump inverter', description: 'Solar pump inverter.' })

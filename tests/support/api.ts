@@ -23,8 +23,15 @@ export interface ApiClient {
   readonly signedIn: boolean
 }
 
+/** A client address of its own per client (the suite's server trusts X-Forwarded-For): the per-address throttles of one test never hold up another. */
+function randomIp(): string {
+  const b = () => Math.floor(Math.random() * 254) + 1
+  return `10.${b()}.${b()}.${b()}`
+}
+
 export function apiClient(opts: { ip?: string } = {}, cookies?: Map<string, string>): ApiClient {
   const baseURL = inject('baseURL')
+  opts = { ...opts, ip: opts.ip ?? randomIp() }
   const jar = new Map<string, string>(cookies)
   const request = async <T>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<ApiResponse<T>> => {
     const res = await fetch(`${baseURL}${path}`, {

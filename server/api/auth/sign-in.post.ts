@@ -6,6 +6,6 @@ import { presentAuth } from '../../presenters/account'
 export default defineApiHandler(async (event) => {
   const body = await validBody(event, SignInBody)
   const user = await signIn(body, clientIp(event))
-  await replaceUserSession(event, { user: { id: user.id, name: user.name, email: user.email }, loggedInAt: Date.now() })
+  await signInSession(event, user)
   return presentAuth(user, await membershipsOf(user.id))
 })

@@ -18,12 +18,18 @@ import { ReportRevision } from './report-revision'
 import { SignInAttempt } from './sign-in-attempt'
 import { Team } from './team'
 import { User } from './user'
+import { UserSession } from './user-session'
+import { RateEvent } from './rate-event'
+import { PendingSignUp } from './pending-sign-up'
 
-export { Capture, PartDatasheet }
+export { Capture, PartDatasheet, UserSession, RateEvent, PendingSignUp }
 export { AuditEntry, Invitation, Link, Membership, Part, PasswordResetToken, Project, ReportComment, ReportEvent, ReportRevision, SignInAttempt, Team, User }
 
 export function initModels(sequelize: Sequelize) {
   User.initModel(sequelize)
+  UserSession.initModel(sequelize)
+  RateEvent.initModel(sequelize)
+  PendingSignUp.initModel(sequelize)
   Team.initModel(sequelize)
   Membership.initModel(sequelize)
   Invitation.initModel(sequelize)
@@ -41,6 +47,7 @@ export function initModels(sequelize: Sequelize) {
 
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
+  UserSession.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   Team.hasMany(Membership, { foreignKey: 'teamId', as: 'memberships' })
   Membership.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })
 

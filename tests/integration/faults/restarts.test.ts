@@ -4,6 +4,7 @@
  * outage and the app recovers by itself afterwards.
  */
 import { execFileSync, spawn, type ChildProcess } from 'node:child_process'
+import { buildTeam, buildUser, FACTORY_PASSWORD } from '../../factories/users'
 import { afterAll, describe, expect, inject, it } from 'vitest'
 import { TELEMETRY_LINK } from '../../../server/db/seeders/demo-links'
 
@@ -32,17 +33,18 @@ async function startSpare(): Promise<ChildProcess> {
   throw new Error('spare server did not start')
 }
 
+/** An admin of a fresh team signed in at `url` (the cookie and the team). */
 async function signUp(url: string) {
-  const email = `faults-${Date.now()}-${Math.random().toString(36).slice(2)}@example.test`
-  const res = await fetch(`${url}/api/auth/sign-up`, {
+  const team = await buildTeam('Fault team')
+  const { user } = await buildUser({ name: 'Fault Tester', team, role: 'admin' })
+  const res = await fetch(`${url}/api/auth/sign-in`, {
     method: 'POST',
     headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ name: 'Fault Tester', email, password: 'fault-password-123', teamName: 'Fault team' }),
+    body: JSON.stringify({ email: user.email, password: FACTORY_PASSWORD }),
   })
-  expect(res.status).toBe(201)
+  expect(res.status).toBe(200)
   const cookie = res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
-  const auth = await res.json()
-  return { cookie, teamId: auth.teams[0].id as number }
+  return { cookie, teamId: team.id }
 }
 
 afterAll(() => {

@@ -6,6 +6,7 @@
  * names the field; no response carries NaN or Infinity.
  */
 import fc from 'fast-check'
+import { buildTeam, buildUser, FACTORY_PASSWORD } from '../../factories/users'
 import { beforeAll, beforeEach, describe, expect, inject, it } from 'vitest'
 import { TELEMETRY_LINK, ADC_SPI_LINK } from '../../../server/db/seeders/demo-links'
 
@@ -110,16 +111,17 @@ function check(route: string, sent: string, r: { status: number; text: string })
 }
 
 beforeAll(async () => {
-  const email = `fuzz-${Date.now()}@example.test`
-  const res = await fetch(`${baseURL}/api/auth/sign-up`, {
+  // an admin of a fresh team, signed in (a sign-up now waits for its mailed confirmation)
+  const team = await buildTeam('Fuzz team')
+  const { user } = await buildUser({ name: 'Fuzz Tester', team, role: 'admin' })
+  const res = await fetch(`${baseURL}/api/auth/sign-in`, {
     method: 'POST',
     headers: { 'content-type': 'application/json' },
-    body: JSON.stringify({ name: 'Fuzz Tester', email, password: 'fuzz-password-123', teamName: 'Fuzz team' }),
+    body: JSON.stringify({ email: user.email, password: FACTORY_PASSWORD }),
   })
-  expect(res.status).toBe(201)
+  expect(res.status).toBe(200)
   cookie = res.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ')
-  const me = await res.json()
-  teamId = me.teams[0].id
+  teamId = team.id
   const project = await json('POST', `/api/teams/${teamId}/projects`, { name: 'Fuzz project' })
   expect(project.status).toBeLessThan(300)
   projectId = project.body.id

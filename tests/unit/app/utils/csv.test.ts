@@ -11,6 +11,11 @@ describe('CSV export', () => {
     expect(csvCell(Number.NaN)).toBe('')
     expect(toCsv(['baud', 'margin (UI)'], [[38400, -0.485]])).toBe('baud,margin (UI)\r\n38400,-0.485\r\n')
   })
+  it('neutralises text a spreadsheet would run as a formula; numbers stay numbers (OWASP, CSV injection)', () => {
+    for (const f of ['=HYPERLINK("http://x","y")', '@SUM(1+1)', '+1', '-1+2', '\tx', '\rx']) expect(csvCell(f).replace(/^"|"$/g, '').startsWith("'")).toBe(true)
+    expect(toCsv(['stage'], [['=cmd|calc'], ['PTC-20']])).toBe('stage\r\n"\'=cmd|calc"\r\nPTC-20\r\n')
+    expect(csvCell(-0.5)).toBe('-0.5')
+  })
   it('sorts numbers numerically with missing values last', () => {
     expect([3, null, 10, 2].sort(compareValues)).toEqual([2, 3, 10, null])
     expect(['d10', 'd2'].sort(compareValues)).toEqual(['d2', 'd10'])
