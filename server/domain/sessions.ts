@@ -8,6 +8,7 @@
 import { Op } from 'sequelize'
 import type { SessionDto } from '../../shared/types/account'
 import { User, UserSession } from '../db/models'
+import { NotFoundError } from '../utils/errors'
 import { sessionLimits } from '../utils/settings'
 import { hashToken, newToken } from '../utils/tokens'
 
@@ -51,8 +52,10 @@ export async function endAllSessions(userId: number, except?: number): Promise<n
 }
 
 /** End one session of the user's own (404-free: ending a session that is gone is done). */
+/** End one of the user's own sessions; another user's id reads as missing (404). */
 export async function endSessionById(userId: number, id: number): Promise<void> {
-  await UserSession.destroy({ where: { userId, id } })
+  const ended = await UserSession.destroy({ where: { userId, id } })
+  if (ended === 0) throw new NotFoundError('session')
 }
 
 export async function listSessions(userId: number, currentId: number): Promise<SessionDto[]> {

@@ -1,5 +1,5 @@
 /**
- * Throttles kept in PostgreSQL (issue 13), so they hold across restarts and across every
+ * Throttles kept in PostgreSQL, so they hold across restarts and across every
  * server process: a counter per bucket and key within a window (sign-ups per address, reset
  * requests per address and per account, invitation accepts per address and per invitation),
  * and the sign-in back-off (sign_in_attempts). None can lock anyone out for long: a limit

@@ -11,7 +11,6 @@ export function appEnv(): AppEnv {
   return v === 'demo' || v === 'development' || v === 'test' ? v : 'production'
 }
 
-/** Base URL for links in e-mails (no trailing slash). */
 /** The app's public address for links in mails: APP_URL, else where this server listens (HOST and PORT). */
 export function appUrl(): string {
   if (process.env.APP_URL) return process.env.APP_URL.replace(/\/+$/, '')

@@ -10,7 +10,7 @@ import { beforeAll, describe, expect, it } from 'vitest'
 import type { ApiClient } from '../../support/api'
 import { linkIn, waitForMail } from '../../support/mail'
 import { buildWorld, CALLERS, type Caller, type World } from '../../factories/world'
-import { buildUser, uniqueEmail } from '../../factories/users'
+import { buildUser, signedIn, uniqueEmail } from '../../factories/users'
 import { buildLink, buildLinkSpec, buildPart, buildPartBody, buildProject } from '../../factories/workspace'
 
 type Statuses = [signedOut: number, viewer: number, engineer: number, reviewer: number, admin: number, outsider: number]
@@ -19,8 +19,11 @@ interface Row {
   method: 'GET' | 'POST' | 'PATCH' | 'DELETE'
   /** the route as documented */
   route: string
-  /** the concrete request of one cell (fresh rows where the cell changes something) */
-  request: () => Promise<{ path: string; body?: unknown }>
+  /**
+   * the concrete request of one cell (fresh rows where the cell changes something); a cell that
+   * ends sessions names its own client, a second session of the caller, so the shared ones live on
+   */
+  request: (caller: Caller) => Promise<{ path: string; body?: unknown; client?: ApiClient }>
   expected: Statuses
 }
 
@@ -40,6 +43,25 @@ const freshProject = async () => (await buildProject(admin(), w.teamId, `Matrix 
 const freshLink = async () => (await buildLink(admin(), fixed.projectId)).id
 const freshPart = async () => (await buildPart(admin(), w.teamId, `Matrix part ${randomUUID().slice(0, 6)}`)).id
 const freshMember = async () => (await buildUser({ team: { id: w.teamId } as never, role: 'viewer' })).membership!.id
+/** A second session of the caller's user (none when signed out). */
+async function ownSession(caller: Caller): Promise<ApiClient | undefined> {
+  return caller === 'signedOut' ? undefined : signedIn(w.users[caller].email)
+}
+/** A throwaway user in the caller's place (same team and role), for a cell that signs out everywhere. */
+async function standIn(caller: Caller): Promise<ApiClient | undefined> {
+  if (caller === 'signedOut') return undefined
+  const team = { id: caller === 'outsider' ? w.otherTeamId : w.teamId } as never
+  const { user } = await buildUser({ team, role: caller === 'outsider' ? 'admin' : caller })
+  return signedIn(user.email)
+}
+/** The id of a second session of the caller's user, to end through the shared one. */
+async function ownSessionId(caller: Caller): Promise<number> {
+  const other = await ownSession(caller)
+  if (!other) return 1
+  const list = await other.get('/api/auth/sessions')
+  return (list.data as { id: number; current: boolean }[]).find((s) => s.current)!.id
+}
+
 async function freshInvitation() {
   const email = uniqueEmail('matrix')
   const res = await admin().post(`/api/teams/${w.teamId}/invitations`, { email, role: 'viewer' })
@@ -52,7 +74,11 @@ const rows: Row[] = [
   // accounts (public routes answer the same for everyone)
   { method: 'POST', route: '/api/auth/sign-up', request: async () => ({ path: '/api/auth/sign-up', body: { name: 'New Founder', email: uniqueEmail('founder'), password: 'matrix password', teamName: 'Matrix Team' } }), expected: [202, 202, 202, 202, 202, 202] },
   { method: 'POST', route: '/api/auth/sign-in', request: async () => ({ path: '/api/auth/sign-in', body: { email: uniqueEmail('nobody'), password: 'wrong' } }), expected: [401, 401, 401, 401, 401, 401] },
-  { method: 'POST', route: '/api/auth/sign-out', request: async () => ({ path: '/api/auth/sign-out' }), expected: [204, 204, 204, 204, 204, 204] },
+  { method: 'POST', route: '/api/auth/sign-up/confirm', request: async () => ({ path: '/api/auth/sign-up/confirm', body: { token: randomUUID().replace(/-/g, '') } }), expected: [400, 400, 400, 400, 400, 400] },
+  { method: 'POST', route: '/api/auth/sign-out', request: async (caller) => ({ path: '/api/auth/sign-out', client: await ownSession(caller) }), expected: [204, 204, 204, 204, 204, 204] },
+  { method: 'GET', route: '/api/auth/sessions', request: async () => ({ path: '/api/auth/sessions' }), expected: SIGNED_IN },
+  { method: 'DELETE', route: '/api/auth/sessions', request: async (caller) => ({ path: '/api/auth/sessions', client: await standIn(caller) }), expected: [401, 204, 204, 204, 204, 204] },
+  { method: 'DELETE', route: '/api/auth/sessions/[sessionId]', request: async (caller) => ({ path: `/api/auth/sessions/${await ownSessionId(caller)}` }), expected: [401, 204, 204, 204, 204, 204] },
   { method: 'GET', route: '/api/auth/me', request: async () => ({ path: '/api/auth/me' }), expected: SIGNED_IN },
   { method: 'POST', route: '/api/auth/password-reset', request: async () => ({ path: '/api/auth/password-reset', body: { email: uniqueEmail('nobody') } }), expected: [202, 202, 202, 202, 202, 202] },
   { method: 'POST', route: '/api/auth/password-reset/complete', request: async () => ({ path: '/api/auth/password-reset/complete', body: { token: randomUUID().replace(/-/g, ''), password: 'matrix password' } }), expected: [400, 400, 400, 400, 400, 400] },
@@ -124,8 +150,8 @@ beforeAll(async () => {
 describe('authorisation matrix', () => {
   describe.each(rows)('$method $route', (row) => {
     it.each(CALLERS.map((caller, i) => ({ caller, status: row.expected[i]! })))('as $caller -> $status', async ({ caller, status }) => {
-      const { path, body } = await row.request()
-      const client: ApiClient = w.clients[caller as Caller].clone({ ip: `10.77.${CALLERS.indexOf(caller)}.1` })
+      const { path, body, client: own } = await row.request(caller)
+      const client: ApiClient = (own ?? w.clients[caller as Caller]).clone({ ip: `10.77.${CALLERS.indexOf(caller)}.1` })
       const res = await client.request(row.method, path, body)
       expect(res.status, `${row.method} ${path} as ${caller}: ${JSON.stringify(res.data).slice(0, 300)}`).toBe(status)
     })

@@ -27,7 +27,10 @@ describe('members and roles', () => {
     expect((await client.post(`/api/teams/${w.teamId}/projects`, { name: 'now allowed' })).status).toBe(201)
     const removed = await w.clients.admin.delete(`/api/teams/${w.teamId}/members/${membership!.id}`)
     expect(removed.status).toBe(204)
-    expect((await client.get(`/api/teams/${w.teamId}/projects`)).status).toBe(404)
+    // removal from a team ends the removed member's sessions: the old cookie reads nothing
+    expect((await client.get(`/api/teams/${w.teamId}/projects`)).status).toBe(401)
+    // signed in again, the team is gone for them: 404, not 403
+    expect((await (await signedIn(user.email)).get(`/api/teams/${w.teamId}/projects`)).status).toBe(404)
   })
 
   it('never leaves a team without an admin', async () => {
