@@ -1,12 +1,44 @@
 import type { CaptureDto } from '#shared/types/capture'
 
+/** captures per page (the server's default page) */
+const PAGE = 20
+
 /**
- * A link's captures, refreshed every second while any extraction is queued or running
- * (the progress the job writes), and the upload action with its own upload progress.
+ * A link's captures, a page at a time (newest first; the list carries summaries only), the
+ * first page refreshed every second while any extraction is queued or running (the progress
+ * the job writes), older pages on demand, and the upload action with its own upload progress.
  */
 export function useCaptures(linkId: () => string) {
-  const { data, refresh, error, status } = useFetch<CaptureDto[]>(() => `/api/links/${linkId()}/captures`, { key: `captures-${linkId()}`, default: () => [] })
-  const working = computed(() => data.value.some((c) => c.status === 'queued' || c.status === 'running'))
+  const total = useState<number>(`captures-total-${linkId()}`, () => 0)
+  const readTotal = (headers: Headers) => {
+    const n = Number(headers.get('x-total-count'))
+    if (Number.isInteger(n)) total.value = n
+  }
+  const { data: first, refresh, error, status } = useFetch<CaptureDto[]>(() => `/api/links/${linkId()}/captures`, {
+    key: `captures-${linkId()}`,
+    query: { limit: PAGE },
+    default: () => [],
+    onResponse: ({ response }) => readTotal(response.headers),
+  })
+  const older = ref<CaptureDto[]>([])
+  /** the first page, then the older pages loaded so far (an id appears once) */
+  const data = computed(() => {
+    const seen = new Set(first.value.map((c) => c.id))
+    return [...first.value, ...older.value.filter((c) => !seen.has(c.id))]
+  })
+  const loadingMore = ref(false)
+  /** The next page of older captures. */
+  async function showMore() {
+    loadingMore.value = true
+    try {
+      const res = await $fetch.raw<CaptureDto[]>(`/api/links/${linkId()}/captures`, { query: { limit: PAGE, offset: data.value.length } })
+      readTotal(res.headers)
+      older.value.push(...(res._data ?? []))
+    } finally {
+      loadingMore.value = false
+    }
+  }
+  const working = computed(() => first.value.some((c) => c.status === 'queued' || c.status === 'running'))
   let timer: ReturnType<typeof setInterval> | undefined
   watch(
     working,
@@ -47,8 +79,9 @@ export function useCaptures(linkId: () => string) {
 
   async function remove(id: number) {
     await $fetch(`/api/captures/${id}`, { method: 'DELETE' })
+    older.value = older.value.filter((c) => c.id !== id)
     await refresh()
   }
 
-  return { captures: data, refresh, error, status, upload, uploading, uploadProgress, uploadError, remove }
+  return { captures: data, total, showMore, loadingMore, refresh, error, status, upload, uploading, uploadProgress, uploadError, remove }
 }

@@ -75,3 +75,25 @@ export class MinMaxDownsampler {
     }
   }
 }
+
+/**
+ * The waveform for a plot `columns` pixels wide: consecutive buckets merged so that at most
+ * `columns` remain, each keeping the lowest minimum and the highest maximum of those it
+ * absorbs (min/max per pixel column: a one-sample spike still reaches the screen).
+ */
+export function mergeBuckets(wave: CaptureWaveform, columns: number): CaptureWaveform {
+  const n = wave.t.length
+  const k = Math.ceil(n / Math.max(1, columns))
+  if (k <= 1) return wave
+  const groups = Math.ceil(n / k)
+  const pick = <T>(f: (from: number, to: number) => T) => Array.from({ length: groups }, (_, g) => f(g * k, Math.min(n, (g + 1) * k)))
+  return {
+    samplesPerBucket: wave.samplesPerBucket * k,
+    t: pick((from) => wave.t[from]!),
+    channels: wave.channels.map((c) => ({
+      name: c.name,
+      min: pick((from, to) => Math.min(...c.min.slice(from, to))),
+      max: pick((from, to) => Math.max(...c.max.slice(from, to))),
+    })),
+  }
+}

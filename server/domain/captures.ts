@@ -6,6 +6,7 @@
  */
 import { createHash } from 'node:crypto'
 import { Op } from 'sequelize'
+import type { Page } from '../utils/paging'
 import { CAPTURE_MAX_BYTES, DATASHEET_MAX_BYTES, type CaptureOptions, type CaptureUploadFields } from '../../shared/schemas/capture'
 import { CaptureFormatError } from '../captures/errors'
 import { parseCapture } from '../captures/parse'
@@ -96,8 +97,9 @@ export async function storeCapture(link: Link, userId: number, file: UploadedFil
   return Capture.findByPk(capture.id, { include: [withOwner], attributes: { exclude: ['waveform'] }, rejectOnEmpty: true })
 }
 
-export function listCaptures(linkId: number) {
-  return Capture.findAll({ where: { linkId }, include: [withOwner], attributes: { exclude: ['waveform'] }, order: [['id', 'DESC']] })
+/** One page of the link's captures, newest first, with summaries only (neither the full result nor the waveform). */
+export function listCaptures(linkId: number, page: Page) {
+  return Capture.findAndCountAll({ where: { linkId }, include: [withOwner], attributes: { exclude: ['waveform', 'result'] }, order: [['id', 'DESC']], limit: page.limit, offset: page.offset })
 }
 
 /** Captures left "queued" (a crash between commit and send): queue them again. */
@@ -149,6 +151,7 @@ export async function storeDatasheet(part: Part, userId: number, file: UploadedF
   }
 }
 
-export function listDatasheets(partId: number) {
-  return PartDatasheet.findAll({ where: { partId }, include: [withOwner], order: [['id', 'DESC']] })
+/** One page of the part's datasheets, newest first. */
+export function listDatasheets(partId: number, page: Page) {
+  return PartDatasheet.findAndCountAll({ where: { partId }, include: [withOwner], order: [['id', 'DESC']], limit: page.limit, offset: page.offset })
 }

@@ -4,14 +4,17 @@ import type { PartCreateBody, PartPatchBody } from '../../shared/schemas/part'
 import { Part } from '../db/models'
 import { useDb } from '../utils/db'
 import { ConflictError } from '../utils/errors'
+import type { Page } from '../utils/paging'
 import { presentPart } from '../presenters/workspace'
 import { audit } from './audit'
 
 /** Built-in parts first, then the team's, each by category and name. */
-export function listParts(teamId: number) {
-  return Part.findAll({
+export function listParts(teamId: number, page: Page) {
+  return Part.findAndCountAll({
     where: { [Op.or]: [{ teamId: null }, { teamId }] },
     order: [[useDb().literal('team_id IS NOT NULL'), 'ASC'], ['category', 'ASC'], ['name', 'ASC'], ['id', 'ASC']],
+    limit: page.limit,
+    offset: page.offset,
   })
 }
 

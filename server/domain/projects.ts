@@ -4,6 +4,7 @@ import type { ProjectCreateBody, ProjectPatchBody } from '../../shared/schemas/p
 import { Link, Project } from '../db/models'
 import { useDb } from '../utils/db'
 import { ConflictError } from '../utils/errors'
+import { PAGE_SIZES, type Page } from '../utils/paging'
 import { presentProject } from '../presenters/workspace'
 import { audit } from './audit'
 
@@ -20,8 +21,13 @@ export async function listProjects(teamId: number) {
   return projects.map((p) => ({ project: p, linkCount: byProject.get(p.id) ?? 0 }))
 }
 
-export function linksOf(projectId: number) {
-  return Link.findAll({ where: { projectId }, order: [['name', 'ASC'], ['id', 'ASC']] })
+/** One page of the project's links by name (the first page unless asked). */
+export function linksOf(projectId: number, page: Page = { limit: PAGE_SIZES.links[0], offset: 0 }) {
+  return Link.findAll({ where: { projectId }, order: [['name', 'ASC'], ['id', 'ASC']], limit: page.limit, offset: page.offset })
+}
+
+export function countLinks(projectId: number) {
+  return Link.count({ where: { projectId } })
 }
 
 export async function createProject(teamId: number, userId: number, body: ProjectCreateBody) {

@@ -7,6 +7,7 @@
  * state moved on: a ConflictError (409). Mails leave after the commit.
  */
 import { Op, type Transaction } from 'sequelize'
+import type { Page } from '../utils/paging'
 import type { CommentTarget, FreezeBody, ReportState } from '../../shared/schemas/report'
 import { REPORT_STATE_LABEL, revisionLabel } from '../../shared/schemas/report'
 import type { Role } from '../../shared/schemas/roles'
@@ -254,12 +255,15 @@ export async function reviewQueue(userId: number) {
 }
 
 /** The revisions of one link, newest first (without the frozen documents). */
-export function linkRevisions(linkId: number) {
-  return ReportRevision.findAll({
+export function linkRevisions(linkId: number, page: Page) {
+  return ReportRevision.findAndCountAll({
     where: { linkId },
     attributes: { exclude: ['input', 'result', 'pullup', 'assumptions', 'captures', 'thresholds'] },
     include: people,
     order: [['number', 'DESC']],
+    limit: page.limit,
+    offset: page.offset,
+    distinct: true,
   })
 }
 

@@ -6,6 +6,7 @@
  * Any other error (storage or database unreachable) is thrown so the queue retries; after
  * the last attempt the capture is marked failed with that error.
  */
+import { summariseCaptureResult } from '../../shared/utils/capture-summary'
 import { analyseCaptureStream } from '../captures/analyse'
 import { CaptureFormatError } from '../captures/errors'
 import { Capture } from '../db/models'
@@ -55,7 +56,7 @@ async function analyse(capture: Capture): Promise<void> {
       ...(o.inverting !== undefined ? { inverting: o.inverting } : {}),
     })
     await pending
-    await capture.update({ status: 'done', progress: 1, result, waveform, error: null })
+    await capture.update({ status: 'done', progress: 1, result, summary: summariseCaptureResult(result), waveform, error: null })
   } catch (err) {
     body.destroy()
     await pending.catch(() => undefined)

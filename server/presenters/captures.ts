@@ -1,9 +1,11 @@
 /** Capture and datasheet DTOs (shared/types/capture.ts) from models. */
-import type { CaptureDto, DatasheetDto } from '../../shared/types/capture'
+import type { CaptureDetailDto, CaptureDto, DatasheetDto } from '../../shared/types/capture'
+import { summariseCaptureResult } from '../../shared/utils/capture-summary'
 import type { Capture, PartDatasheet } from '../db/models'
 
 type WithOwner = { owner?: { id: number; name: string } | null }
 
+/** A capture as lists carry it: the measurement's summary (read from its own column when the full result was not loaded). */
 export function presentCapture(c: Capture & WithOwner): CaptureDto {
   return {
     id: c.id,
@@ -17,10 +19,15 @@ export function presentCapture(c: Capture & WithOwner): CaptureDto {
     status: c.status,
     progress: c.progress,
     error: c.error ?? null,
-    result: c.result ?? null,
+    result: c.summary ?? (c.result ? summariseCaptureResult(c.result) : null),
     owner: c.owner ? { id: c.owner.id, name: c.owner.name } : null,
     createdAt: c.createdAt.toISOString(),
   }
+}
+
+/** One capture with its whole measurement. */
+export function presentCaptureDetail(c: Capture & WithOwner): CaptureDetailDto {
+  return { ...presentCapture(c), result: c.result ?? null }
 }
 
 export function presentDatasheet(d: PartDatasheet & WithOwner): DatasheetDto {

@@ -33,8 +33,9 @@ export function presentLinkSummary(l: Link): LinkSummaryDto {
   }
 }
 
-export function presentProjectDetail(p: Project, links: Link[], role: Role): ProjectDetailDto {
-  return { ...presentProject(p, links.length), role, links: links.map(presentLinkSummary) }
+/** A project with the first page of its links; linkCount counts them all. */
+export function presentProjectDetail(p: Project, links: Link[], role: Role, linkCount = links.length): ProjectDetailDto {
+  return { ...presentProject(p, linkCount), role, links: links.map(presentLinkSummary) }
 }
 
 export function presentLink(l: Link, role: Role): LinkDto {

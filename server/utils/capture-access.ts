@@ -11,13 +11,13 @@ import { ForbiddenError, NotFoundError } from './errors'
 const accessJoin = (userId: number) => ({ model: Membership, as: 'access', where: { userId }, required: true, attributes: ['role'] })
 const ownerJoin = { model: User, as: 'owner', attributes: ['id', 'name'] }
 
-/** The capture (without its waveform unless asked) if the caller's team owns it. */
+/** The capture (without its waveform unless asked; with it, without the full result) if the caller's team owns it. */
 export async function requireCapture(event: H3Event, captureId: number, action: Action, opts: { waveform?: boolean } = {}) {
   const user = await requireUser(event)
   const capture = await Capture.findOne({
     where: { id: captureId },
     include: [accessJoin(user.id), ownerJoin],
-    ...(opts.waveform ? {} : { attributes: { exclude: ['waveform'] } }),
+    attributes: { exclude: opts.waveform ? ['result'] : ['waveform'] },
   })
   if (!capture?.access) throw new NotFoundError('capture')
   if (!can(capture.access.role, action)) throw new ForbiddenError(`a ${capture.access.role} may not do this (${action})`)

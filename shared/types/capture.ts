@@ -162,8 +162,18 @@ export interface CaptureResult {
   warnings: string[]
 }
 
+/**
+ * A capture's measurement as lists carry it: every count, level and statistic, without the
+ * edge and pair lists or the file's header lines (those make a result some 100 kB to 500 kB;
+ * GET /api/captures/:id returns the whole result).
+ */
+export interface CaptureResultSummary extends Omit<CaptureResult, 'format' | 'channels' | 'pairing'> {
+  format: Omit<CaptureFormat, 'header'>
+  channels: Omit<CaptureChannelResult, 'edges'>[]
+  pairing: Omit<PairingResult, 'pairs'> | null
+}
 
-/** A capture as the API returns it (never the waveform: that is its own route). */
+/** A capture as lists return it (never the waveform: that is its own route). */
 export interface CaptureDto {
   id: number
   linkId: number
@@ -181,10 +191,15 @@ export interface CaptureDto {
   progress: number
   /** why the capture could not be read (names the line when one is at fault) */
   error: string | null
-  /** the measurement, once status is done */
-  result: CaptureResult | null
+  /** the measurement's summary, once status is done */
+  result: CaptureResultSummary | null
   owner: { id: number; name: string } | null
   createdAt: string
+}
+
+/** One capture with its whole measurement (GET /api/captures/:id). */
+export interface CaptureDetailDto extends CaptureDto {
+  result: CaptureResult | null
 }
 
 export interface DatasheetDto {

@@ -13,7 +13,7 @@
  *   was taken on (the stage's LED current, load, supply and base-emitter resistor); a point
  *   at the same conditions (within 1 %) is replaced.
  */
-import type { CaptureResult, SummaryStats } from '../types/capture'
+import type { CaptureResultSummary, SummaryStats } from '../types/capture'
 import type { CharacterizationPoint, DelaySpec, Link, TransitionSpec } from '../schemas/link'
 import { ledCurrentOf, phototransistorInverts } from './coupler'
 
@@ -50,7 +50,7 @@ const us = (s: number) => `${(s * 1e6).toPrecision(4)} µs`
  * when they differ (the wrong channels were paired, or the stage is wired the other way),
  * null when they agree or the capture did not pair its channels. Shown before applying.
  */
-export function polarityMismatch(spec: Link, at: StageRef, result: CaptureResult): string | null {
+export function polarityMismatch(spec: Link, at: StageRef, result: CaptureResultSummary): string | null {
   const p = result.pairing
   const stage = spec.channels[at.channel]?.stages[at.stage]
   if (!p || !stage) return null
@@ -60,7 +60,7 @@ export function polarityMismatch(spec: Link, at: StageRef, result: CaptureResult
   return `the capture shows a${p.inverting ? 'n inverting' : ' non-inverting'} path but the stage is set ${stageInverts ? 'inverting' : 'non-inverting'}; check the wiring or the channels`
 }
 
-export function applyCaptureToStage(spec: Link, at: StageRef, result: CaptureResult, mode: ApplyMode, opts: { rl?: number } = {}): AppliedCapture {
+export function applyCaptureToStage(spec: Link, at: StageRef, result: CaptureResultSummary, mode: ApplyMode, opts: { rl?: number } = {}): AppliedCapture {
   const p = result.pairing
   if (!p) throw new Error('the capture has no input/output pairing: upload it with an input and an output channel')
   if (!p.tPLH || !p.tPHL) throw new Error('the capture needs both output directions (tPLH and tPHL) to be applied')

@@ -1,6 +1,6 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
 import type { CaptureOptions, CaptureStatus } from '../../../shared/schemas/capture'
-import type { CaptureResult } from '../../captures/analyse'
+import type { CaptureResult, CaptureResultSummary } from '../../../shared/types/capture'
 import type { CaptureWaveform } from '../../captures/downsample'
 import type { Membership } from './membership'
 import type { User } from './user'
@@ -24,6 +24,8 @@ export class Capture extends Model<InferAttributes<Capture>, InferCreationAttrib
   declare progress: CreationOptional<number>
   declare error: CreationOptional<string | null>
   declare result: CreationOptional<CaptureResult | null>
+  /** the result without its edge and pair lists, for lists (shared/utils/capture-summary.ts) */
+  declare summary: CreationOptional<CaptureResultSummary | null>
   declare waveform: CreationOptional<CaptureWaveform | null>
   declare createdAt: CreationOptional<Date>
   declare updatedAt: CreationOptional<Date>
@@ -48,6 +50,7 @@ export class Capture extends Model<InferAttributes<Capture>, InferCreationAttrib
         progress: { type: DataTypes.REAL, allowNull: false, defaultValue: 0 },
         error: { type: DataTypes.TEXT, allowNull: true },
         result: { type: DataTypes.JSONB, allowNull: true },
+        summary: { type: DataTypes.JSONB, allowNull: true },
         waveform: { type: DataTypes.JSONB, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

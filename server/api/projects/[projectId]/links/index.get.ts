@@ -1,10 +1,12 @@
-import { linksOf } from '../../../../domain/projects'
+import { countLinks, linksOf } from '../../../../domain/projects'
 import { presentLinkSummary } from '../../../../presenters/workspace'
 
-/** The project's links as summaries. */
+/** One page of the project's links as summaries, by name. ?limit=200&offset=0 */
 export default defineApiHandler(async (event) => {
   await requireUser(event)
   const { projectId } = await validParams(event, idParams('projectId'))
   const { project } = await requireProject(event, projectId, 'link.read')
-  return (await linksOf(project.id)).map(presentLinkSummary)
+  const page = await validPage(event, ...PAGE_SIZES.links)
+  const [links, count] = await Promise.all([linksOf(project.id, page), countLinks(project.id)])
+  return sendPage(event, links.map(presentLinkSummary), count, page)
 })
