@@ -47,6 +47,8 @@ stop_on_exit() {
 }
 _stop_started() {
   for p in "${pids[@]}"; do kill "$p" 2>/dev/null || true; done
+  # the servers finish their requests in flight before the database goes
+  for p in "${pids[@]}"; do wait "$p" 2>/dev/null || true; done
   if [ "${STOP_LOCAL_PG:-}" = yes ]; then env -u DATABASE_URL bash scripts/pg.sh stop || true; fi
 }
 

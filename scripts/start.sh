@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # npm start: from a fresh clone to a running production server on http://localhost:3000.
 # Installs dependencies, ensures and starts PostgreSQL on loopback, migrates, seeds the
-# demo on an empty database, starts the local mail fake, builds, and serves.
+# demo on an empty database, starts the local mail fake, builds, and serves with one
+# worker process per core (scripts/serve.ts).
 set -euo pipefail
 cd "$(dirname "$0")/.."
 . scripts/lib.sh
@@ -30,6 +31,7 @@ npx nuxt build >.data/build.log 2>&1 || { tail -n 40 .data/build.log >&2; exit 1
 log "Bitslack is at http://localhost:$PORT"
 log "demo sign-in: admin@harrowbay.example (also firmware@, hardware@, reviewer@, viewer@) / password harrow-bay-demo"
 print_fake_urls
-PORT=$PORT HOST=$HOST node .output/server/index.mjs &
+# one worker per core (BITSLACK_WORKERS to choose); kill -HUP <pid> restarts them one at a time
+PORT=$PORT HOST=$HOST node --import tsx scripts/serve.ts .output/server/index.mjs &
 pids+=($!)
 wait "${pids[-1]}"

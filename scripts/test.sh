@@ -34,7 +34,7 @@ set -e
 # outside this run's own build folder
 env -u BITSLACK_BUILD_DIR -u BITSLACK_OUTPUT_DIR bash -c '. scripts/lib.sh; ensure_node_modules'
 [ -f .nuxt/tsconfig.app.json ] || env -u BITSLACK_BUILD_DIR -u BITSLACK_OUTPUT_DIR npx nuxt prepare >/dev/null 2>&1
-pkgs=("/usr/bin/chromium:chromium" "ngspice:ngspice" "pdftoppm:poppler-utils")
+pkgs=("/usr/bin/chromium:chromium" "ngspice:ngspice" "pdftoppm:poppler-utils" "/usr/sbin/haproxy:haproxy")
 ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1 || pkgs+=("/nonexistent-initdb:postgresql")
 ensure_debian_packages "${pkgs[@]}"
 

@@ -5,6 +5,7 @@
  */
 import pg from 'pg'
 import { Sequelize } from 'sequelize'
+import { dbPoolSizes } from '../utils/settings'
 
 /** Default URL of the project-local cluster started by scripts/pg.sh. */
 export function databaseUrl(): string {
@@ -18,7 +19,7 @@ export function createSequelize(url = databaseUrl()): Sequelize {
     dialect: 'postgres',
     dialectModule: pg,
     logging: false,
-    pool: { max: 10, min: 0, idle: 10_000, acquire: 10_000 },
+    pool: { max: dbPoolSizes().requests, min: 0, idle: 10_000, acquire: 10_000 },
     define: { underscored: true },
   })
 }

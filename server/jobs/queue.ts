@@ -4,6 +4,7 @@
  */
 import PgBoss from 'pg-boss'
 import type { QueuedMail } from '../mail/types'
+import { dbPoolSizes } from '../utils/settings'
 
 /** Extract the edges of one uploaded capture: data { captureId }. */
 export const CAPTURE_EXTRACT = 'capture-extract'
@@ -34,7 +35,7 @@ export async function startQueue(
     resetRequest: (email: string) => Promise<void>
   },
 ): Promise<PgBoss> {
-  const b = new PgBoss({ connectionString, max: 4, application_name: 'bitslack-jobs' })
+  const b = new PgBoss({ connectionString, max: dbPoolSizes().jobs, application_name: 'bitslack-jobs' })
   b.on('error', (err) => console.error('[bitslack] job queue:', err instanceof Error ? err.message : err))
   await b.start()
   // stately: at most one queued and one running job per capture (singletonKey), so a

@@ -110,5 +110,10 @@ export async function requirePart(event: H3Event, partId: number, action: Action
 
 /** The client's IP for rate limiting (X-Forwarded-For only when trusted). */
 export function clientIp(event: H3Event): string {
-  return getRequestIP(event, { xForwardedFor: trustProxy() }) || 'unknown'
+  if (trustProxy()) {
+    // the entry the trusted proxy appended: the last one (entries before it are the client's word)
+    const last = getRequestHeader(event, 'x-forwarded-for')?.split(',').map((s) => s.trim()).filter(Boolean).pop()
+    if (last) return last.slice(0, 64)
+  }
+  return getRequestIP(event) || 'unknown'
 }

@@ -93,3 +93,20 @@ export function sessionLimits(): { maxAgeMs: number; idleMs: number } {
   }
   return { maxAgeMs: hours('BITSLACK_SESSION_MAX_AGE_HOURS', 7 * 24), idleMs: hours('BITSLACK_SESSION_IDLE_HOURS', 12) }
 }
+
+/**
+ * Database pool sizes for one server process. The deployment has a budget of connections
+ * (BITSLACK_DB_CONNECTIONS, default 60: PostgreSQL allows 100 by default, the rest is left
+ * for migrations, backups and psql) shared by the BITSLACK_WORKERS processes of one host
+ * (set by scripts/serve.ts); each process keeps 3 for the job queue and the rest, between
+ * 4 and 20, for requests. BITSLACK_DB_POOL_MAX overrides the request pool.
+ */
+export function dbPoolSizes(): { requests: number; jobs: number } {
+  const int = (name: string, fallback: number) => {
+    const v = Number(process.env[name])
+    return Number.isInteger(v) && v > 0 ? v : fallback
+  }
+  const jobs = 3
+  const share = Math.floor(int('BITSLACK_DB_CONNECTIONS', 60) / int('BITSLACK_WORKERS', 1))
+  return { requests: int('BITSLACK_DB_POOL_MAX', Math.min(20, Math.max(4, share - jobs))), jobs }
+}

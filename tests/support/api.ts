@@ -19,8 +19,10 @@ export interface ApiClient {
   /** forget the session cookie */
   reset(): void
   /** a second client holding the same cookies (a sign-out or sign-up on it leaves this one as it is) */
-  clone(opts?: { ip?: string }): ApiClient
+  clone(opts?: { ip?: string; baseURL?: string }): ApiClient
   readonly signedIn: boolean
+  /** the Cookie header this client sends (for multipart uploads by hand) */
+  readonly cookie: string
 }
 
 /** A client address of its own per client (the suite's server trusts X-Forwarded-For): the per-address throttles of one test never hold up another. */
@@ -29,8 +31,9 @@ function randomIp(): string {
   return `10.${b()}.${b()}.${b()}`
 }
 
-export function apiClient(opts: { ip?: string } = {}, cookies?: Map<string, string>): ApiClient {
-  const baseURL = inject('baseURL')
+/** A client of the suite's server, or of another one (baseURL: a spare server, the proxy of the scale-out tests). */
+export function apiClient(opts: { ip?: string; baseURL?: string } = {}, cookies?: Map<string, string>): ApiClient {
+  const baseURL = opts.baseURL ?? inject('baseURL')
   opts = { ...opts, ip: opts.ip ?? randomIp() }
   const jar = new Map<string, string>(cookies)
   const request = async <T>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<ApiResponse<T>> => {
@@ -69,6 +72,9 @@ export function apiClient(opts: { ip?: string } = {}, cookies?: Map<string, stri
     clone: (o) => apiClient({ ...opts, ...o }, jar),
     get signedIn() {
       return jar.size > 0
+    },
+    get cookie() {
+      return [...jar].map(([k, v]) => `${k}=${v}`).join('; ')
     },
   }
 }
