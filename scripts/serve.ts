@@ -3,8 +3,10 @@
  * (BITSLACK_WORKERS to choose), each running the built Nitro server; the workers share the
  * listening port (the primary hands connections round-robin). A worker that dies is
  * replaced (with a growing pause if it keeps dying at start). SIGHUP restarts the workers
- * one at a time, a new one listening before the old one stops, so the port never goes
- * unanswered; SIGTERM / SIGINT stop them gracefully (Nitro finishes the requests in flight).
+ * one at a time: a new one listens first, then the old one drains (it stops taking
+ * connections and closes each open one after its next answer, server/plugins/drain.ts),
+ * disconnects and stops, so no request is refused or cut; SIGTERM / SIGINT stop them
+ * gracefully (Nitro finishes the requests in flight).
  *
  *   tsx scripts/serve.ts [path/to/server/index.mjs]
  */
@@ -36,6 +38,33 @@ function listening(w: Worker): Promise<void> {
     w.once('listening', () => resolve())
     w.once('exit', (code) => reject(new Error(`worker ${w.process.pid} exited with ${code} before listening`)))
   })
+}
+
+/** Let a worker finish its open connections and leave the shared port before it is stopped. */
+function drain(w: Worker, timeoutMs = 10_000): Promise<void> {
+  return new Promise((resolve) => {
+    const finish = () => {
+      clearTimeout(timer)
+      w.off('message', onMessage)
+      resolve()
+    }
+    const onMessage = (m: unknown) => m === 'bitslack:drained' && finish()
+    const timer = setTimeout(finish, timeoutMs)
+    w.on('message', onMessage)
+    w.once('exit', finish)
+    w.send('bitslack:drain')
+  }).then(
+    () =>
+      new Promise<void>((resolve) => {
+        if (w.isDead() || !w.isConnected()) return resolve()
+        const timer = setTimeout(resolve, 5_000)
+        w.once('disconnect', () => {
+          clearTimeout(timer)
+          resolve()
+        })
+        w.disconnect()
+      }),
+  )
 }
 
 function stop(w: Worker, timeoutMs = 35_000): Promise<void> {
@@ -73,6 +102,7 @@ async function rollingRestart() {
       return
     }
     ;(old as Worker & { replaced?: boolean }).replaced = true
+    await drain(old)
     await stop(old)
   }
   log('restart done')

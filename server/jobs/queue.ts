@@ -27,6 +27,24 @@ const MAIL_RETRY = { retryLimit: 25, retryDelay: 2, retryBackoff: true, expireIn
 /** Attempts of one extraction: the first and RETRY_LIMIT retries. */
 const RETRY_LIMIT = 2
 
+/**
+ * Several processes starting at once on a fresh database create the same queues at the same
+ * moment; PostgreSQL then aborts one of them (deadlock 40P01, or 23505 on the queue's row).
+ * Creating a queue that exists is a no-op, so the loser tries again after a short pause.
+ */
+async function concurrentSafe(create: () => Promise<unknown>, attempts = 6): Promise<void> {
+  for (let i = 1; ; i++) {
+    try {
+      await create()
+      return
+    } catch (err) {
+      const code = (err as { code?: string }).code
+      if (i >= attempts || (code !== '40P01' && code !== '23505')) throw err
+      await new Promise((r) => setTimeout(r, 100 * 2 ** i * (0.5 + Math.random())))
+    }
+  }
+}
+
 export async function startQueue(
   connectionString: string,
   handlers: {
@@ -40,15 +58,15 @@ export async function startQueue(
   await b.start()
   // stately: at most one queued and one running job per capture (singletonKey), so a
   // re-send after a crash or by a second instance never runs the same capture twice at once
-  await b.createQueue(CAPTURE_EXTRACT, { name: CAPTURE_EXTRACT, policy: 'stately', retryLimit: RETRY_LIMIT, retryDelay: 5, expireInSeconds: 5 * 60 })
+  await concurrentSafe(() => b.createQueue(CAPTURE_EXTRACT, { name: CAPTURE_EXTRACT, policy: 'stately', retryLimit: RETRY_LIMIT, retryDelay: 5, expireInSeconds: 5 * 60 }))
   await b.work<{ captureId: number }>(CAPTURE_EXTRACT, { batchSize: 1, pollingIntervalSeconds: 1, includeMetadata: true }, async ([job]) => {
     if (job) await handlers.extractCapture(job.data.captureId, { lastAttempt: job.retryCount >= RETRY_LIMIT })
   })
-  await b.createQueue(MAIL_SEND, { name: MAIL_SEND, policy: 'standard', ...MAIL_RETRY })
+  await concurrentSafe(() => b.createQueue(MAIL_SEND, { name: MAIL_SEND, policy: 'standard', ...MAIL_RETRY }))
   await b.work<QueuedMail>(MAIL_SEND, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
     if (job) await handlers.deliverMail(job.data)
   })
-  await b.createQueue(RESET_REQUEST, { name: RESET_REQUEST, policy: 'standard', retryLimit: 3, retryDelay: 5, expireInSeconds: 60 })
+  await concurrentSafe(() => b.createQueue(RESET_REQUEST, { name: RESET_REQUEST, policy: 'standard', retryLimit: 3, retryDelay: 5, expireInSeconds: 60 }))
   await b.work<{ email: string }>(RESET_REQUEST, { batchSize: 1, pollingIntervalSeconds: 0.5 }, async ([job]) => {
     if (job) await handlers.resetRequest(job.data.email)
   })
