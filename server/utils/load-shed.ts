@@ -35,24 +35,35 @@ export class Gate {
 
   constructor(private readonly s: GateSettings) {}
 
-  /** Take a place (resolves with its release), or refuse with 503 when the line is full or the wait too long. */
-  async enter(): Promise<() => void> {
+  /**
+   * Take a place (resolves with its release), or refuse with 503 when the line is full or the
+   * wait too long. `gone` is the client going away: a request whose client left while it
+   * waited leaves the line (it would otherwise take a place that nobody ever gives back).
+   */
+  async enter(gone?: AbortSignal): Promise<() => void> {
+    if (gone?.aborted) throw goneError()
     if (this.busy < this.s.concurrency) {
       this.busy++
       return this.releaser()
     }
     if (this.waiting.length >= this.s.queue) throw busyError()
     return new Promise((resolve, reject) => {
+      const leave = (err: Error) => {
+        clearTimeout(timer)
+        gone?.removeEventListener('abort', onGone)
+        const i = this.waiting.indexOf(wake)
+        if (i >= 0) this.waiting.splice(i, 1)
+        reject(err)
+      }
       const wake = () => {
         clearTimeout(timer)
+        gone?.removeEventListener('abort', onGone)
         this.busy++
         resolve(this.releaser())
       }
-      const timer = setTimeout(() => {
-        const i = this.waiting.indexOf(wake)
-        if (i >= 0) this.waiting.splice(i, 1)
-        reject(busyError())
-      }, this.s.waitMs)
+      const onGone = () => leave(goneError())
+      const timer = setTimeout(() => leave(busyError()), this.s.waitMs)
+      gone?.addEventListener('abort', onGone, { once: true })
       this.waiting.push(wake)
     })
   }
@@ -70,6 +81,10 @@ export class Gate {
       this.waiting.shift()?.()
     }
   }
+}
+
+function goneError() {
+  return createError({ statusCode: 499, statusMessage: 'the client closed the request' })
 }
 
 function busyError() {

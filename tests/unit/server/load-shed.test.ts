@@ -32,4 +32,19 @@ describe('Gate', () => {
     release()
     expect(await refused(gate.enter())).toBe('entered')
   })
+
+  it('a request whose client goes away while it waits leaves the line and never takes a place', async () => {
+    // common practice: a load shedder must not leak places to requests nobody waits for
+    const gate = new Gate({ concurrency: 1, queue: 5, waitMs: 10_000 })
+    const release = await gate.enter()
+    const gone = new AbortController()
+    const waiting = refused(gate.enter(gone.signal))
+    expect(gate.load).toEqual({ busy: 1, waiting: 1 })
+    gone.abort()
+    expect(await waiting).toBe(499)
+    expect(gate.load).toEqual({ busy: 1, waiting: 0 })
+    release()
+    expect(gate.load).toEqual({ busy: 0, waiting: 0 })
+    expect(await refused(gate.enter(gone.signal))).toBe(499)
+  })
 })
