@@ -1,6 +1,7 @@
 import { defineStore } from 'pinia'
 import { computed, ref } from 'vue'
 import { apiErrorMessage, apiIssues, apiStatus } from '../utils/apiError'
+import { memoOnServer } from '../utils/memoOnServer'
 import type { LinkInput } from '#shared/schemas/link'
 import { checkLinkDraft } from '#shared/schemas/linkDraft'
 import type { LinkAnalysis, PullupSweepRow } from '#shared/types/analysis'
@@ -49,20 +50,21 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
   const savedAt = ref<string | null>(null)
 
   /** the draft against the shared schema: complete, or values still missing, or real problems */
-  const check = computed(() => (draft.value ? checkLinkDraft(draft.value) : null))
+  const checkDraft = memoOnServer(checkLinkDraft)
+  const check = computed(() => (draft.value ? checkDraft(draft.value) : null))
   /** text typed into fields that could not be read yet, by dotted path (the fields report it) */
   const typing = ref<Record<string, string>>({})
   /** schema issues of the draft and fields not read yet, keyed by dotted path (first message per path) */
-  const issues = computed<Record<string, string>>(() => {
-    const out: Record<string, string> = { ...typing.value }
-    const c = check.value
+  const issuesOf = memoOnServer((typed: Record<string, string>, c: ReturnType<typeof checkLinkDraft> | null, fromServer: Record<string, string>) => {
+    const out: Record<string, string> = { ...typed }
     if (c) {
       for (const i of c.issues) out[i.path.map(String).join('.')] ??= i.message
       for (const m of c.missing) out[m.map(String).join('.')] ??= 'enter a value'
     }
-    for (const [k, m] of Object.entries(serverIssues.value)) out[k] ??= m
+    for (const [k, m] of Object.entries(fromServer)) out[k] ??= m
     return out
   })
+  const issues = computed<Record<string, string>>(() => issuesOf(typing.value, check.value, serverIssues.value))
   /** values still to enter (a new link's blank stages) */
   const missingCount = computed(() => check.value?.missing.length ?? 0)
   /** fields to fix: real schema problems and text not read, by distinct field */
@@ -76,7 +78,8 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
   const valid = computed(() => !!check.value?.link && Object.keys(typing.value).length === 0)
   /** may be saved: no real problem (values may still be missing) */
   const savable = computed(() => !!check.value && fixCount.value === 0)
-  const dirty = computed(() => !!draft.value && !!saved.value && canonical(draft.value) !== canonical(saved.value.spec))
+  const differs = memoOnServer((d: LinkInput, s: LinkDto) => canonical(d) !== canonical(s.spec))
+  const dirty = computed(() => !!draft.value && !!saved.value && differs(draft.value, saved.value))
 
   function load(link: LinkDto) {
     linkId.value = String(link.id)
