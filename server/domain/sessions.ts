@@ -51,7 +51,6 @@ export async function endAllSessions(userId: number, except?: number): Promise<n
   return UserSession.destroy({ where: { userId, ...(except !== undefined ? { id: { [Op.ne]: except } } : {}) } })
 }
 
-/** End one session of the user's own (404-free: ending a session that is gone is done). */
 /** End one of the user's own sessions; another user's id reads as missing (404). */
 export async function endSessionById(userId: number, id: number): Promise<void> {
   const ended = await UserSession.destroy({ where: { userId, id } })

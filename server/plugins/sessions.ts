@@ -1,15 +1,14 @@
 /**
  * The browser asks nuxt-auth-utils for its session (/api/_auth/session): it is answered
  * from the server-side session row, so a session that was signed out, expired or idled out
- * reads as signed out there too, and the cookie is cleared.
+ * reads as signed out there too, and the cookie is cleared (getSessionUser; during a page's
+ * server render it reuses the page's own answer).
  */
-import { resolveSession } from '../domain/sessions'
-
 export default defineNitroPlugin(() => {
   sessionHooks.hook('fetch', async (session, event) => {
-    const resolved = await resolveSession(session.secure?.sid)
-    if (resolved) {
-      session.user = resolved.user
+    const user = await getSessionUser(event)
+    if (user) {
+      session.user = user
       return
     }
     await clearUserSession(event)
