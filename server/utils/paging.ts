@@ -21,9 +21,15 @@ export function pageQuery(defaultLimit: number, maxLimit: number) {
   })
 }
 
+// building a zod schema costs far more than using one: one per page size, made once
+const pageQueries = new Map<string, ReturnType<typeof pageQuery>>()
+
 /** Read and check the page of a list route (400 naming limit or offset). */
 export function validPage(event: H3Event, defaultLimit: number, maxLimit: number): Promise<Page> {
-  return validQuery(event, pageQuery(defaultLimit, maxLimit))
+  const key = `${defaultLimit}/${maxLimit}`
+  let schema = pageQueries.get(key)
+  if (!schema) pageQueries.set(key, (schema = pageQuery(defaultLimit, maxLimit)))
+  return validQuery(event, schema)
 }
 
 /** Send one page: the items as the body, the total and the next/previous pages in headers. */

@@ -21,9 +21,17 @@ export const IdParam = z.union([z.number(), z.string()], { error: 'must be a pos
   })
   .pipe(z.number().max(2 ** 31 - 1, 'is out of range'))
 
-/** Route params `{ [name]: id }` for one or more id parameters. */
+const idParamSchemas = new Map<string, z.ZodType>()
+
+/**
+ * Route params `{ [name]: id }` for one or more id parameters. Routes ask on every request, and
+ * building a zod schema costs far more than using one: each set of names is built once.
+ */
 export function idParams<K extends string>(...names: K[]) {
-  return z.object(Object.fromEntries(names.map((n) => [n, IdParam])) as Record<K, typeof IdParam>)
+  const key = names.join(',')
+  let schema = idParamSchemas.get(key)
+  if (!schema) idParamSchemas.set(key, (schema = z.object(Object.fromEntries(names.map((n) => [n, IdParam])) as Record<K, typeof IdParam>)))
+  return schema as z.ZodObject<Record<K, typeof IdParam>>
 }
 
 export async function validParams<S extends z.ZodType>(event: H3Event, schema: S): Promise<z.output<S>> {
