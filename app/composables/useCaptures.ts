@@ -7,6 +7,8 @@ const PAGE = 20
  * A link's captures, a page at a time (newest first; the list carries summaries only), the
  * first page refreshed every second while any extraction is queued or running (the progress
  * the job writes), older pages on demand, and the upload action with its own upload progress.
+ * The list is fetched in the browser: the server's render of the link page stays as light as the
+ * page without captures.
  */
 export function useCaptures(linkId: () => string) {
   const total = useState<number>(`captures-total-${linkId()}`, () => 0)
@@ -17,6 +19,7 @@ export function useCaptures(linkId: () => string) {
   const { data: first, refresh, error, status } = useFetch<CaptureDto[]>(() => `/api/links/${linkId()}/captures`, {
     key: `captures-${linkId()}`,
     query: { limit: PAGE },
+    server: false,
     default: () => [],
     onResponse: ({ response }) => readTotal(response.headers),
   })
@@ -38,6 +41,8 @@ export function useCaptures(linkId: () => string) {
       loadingMore.value = false
     }
   }
+  /** the first page is still on its way */
+  const loading = computed(() => (status.value === 'idle' || status.value === 'pending') && !first.value.length)
   const working = computed(() => first.value.some((c) => c.status === 'queued' || c.status === 'running'))
   let timer: ReturnType<typeof setInterval> | undefined
   watch(
@@ -83,5 +88,5 @@ export function useCaptures(linkId: () => string) {
     await refresh()
   }
 
-  return { captures: data, total, showMore, loadingMore, refresh, error, status, upload, uploading, uploadProgress, uploadError, remove }
+  return { captures: data, total, loading, showMore, loadingMore, refresh, error, status, upload, uploading, uploadProgress, uploadError, remove }
 }

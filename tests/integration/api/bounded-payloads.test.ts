@@ -123,8 +123,8 @@ describe('the link page with 100 large captures', () => {
     expect(withCaptures.data).toContain('Crowded link')
     const bytes = Buffer.byteLength(withCaptures.data)
     expect(bytes).toBeLessThan(PAGE_BUDGET)
-    // the capture table's first page of summaries is all the captures add
-    expect(bytes - Buffer.byteLength(without.data)).toBeLessThan(80_000)
+    // the browser fetches the capture list (a page of summaries) after the first paint: the captures add nothing to the render
+    expect(Math.abs(bytes - Buffer.byteLength(without.data))).toBeLessThan(5_000)
   })
 })
 
