@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { compareValues } from '../../../../app/utils/csv'
 import { csvCell, toCsv } from '../../../../shared/utils/csv'
-import { diffSpecs } from '../../../../app/utils/specDiff'
+import { diffSpecs } from '../../../../shared/utils/specDiff'
 
 describe('CSV export', () => {
   it('quotes what needs quoting and writes CRLF lines', () => {

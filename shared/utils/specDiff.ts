@@ -1,5 +1,5 @@
 /**
- * Compare two link specs field by field, for the "someone else saved" dialog: every
+ * Compare two link specs field by field (the "someone else saved" dialog, bitslack diff): every
  * leaf path whose value differs, with both values. Pure, no Vue.
  */
 export interface SpecDifference {
