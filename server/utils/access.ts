@@ -10,6 +10,7 @@ import type { User as SessionUser } from '#auth-utils'
 import { can, type Action } from '../../shared/permissions'
 import type { Role } from '../../shared/schemas/roles'
 import { Link, Membership, Part, Project, User } from '../db/models'
+import { actingRole, type ResolvedToken } from '../domain/api-tokens'
 import { createSession, resolveSession } from '../domain/sessions'
 import { ForbiddenError, NotFoundError, UnauthorizedError } from './errors'
 
@@ -92,6 +93,23 @@ export async function signInSession(event: H3Event, user: { id: number; name: st
   event.context.sessionUser = undefined
 }
 
+/**
+ * The role the caller acts with in a team. A browser session acts with its membership's role;
+ * an API token only in its own team (another team's rows read as missing, as for a
+ * non-member) and with its scope's role, never more than the owner's role now.
+ */
+export function scopedRole(event: H3Event, teamId: number, memberRole: Role, what: string): Role {
+  const token = event.context.apiToken as ResolvedToken | undefined
+  if (!token) return memberRole
+  if (token.teamId !== teamId) throw new NotFoundError(what)
+  return actingRole(token.scope, memberRole)
+}
+
+/** The API token of this request, when it came with one. */
+export function requestToken(event: H3Event): ResolvedToken | undefined {
+  return event.context.apiToken as ResolvedToken | undefined
+}
+
 function allow(role: Role, action: Action) {
   if (!can(role, action)) throw new ForbiddenError(`a ${role} may not do this (${action})`)
 }
@@ -101,8 +119,9 @@ export async function requireRole(event: H3Event, teamId: number, action: Action
   const user = await requireUser(event)
   const membership = await Membership.findOne({ where: { teamId, userId: user.id } })
   if (!membership) throw new NotFoundError('team')
-  allow(membership.role, action)
-  return { user, role: membership.role, teamId }
+  const role = scopedRole(event, teamId, membership.role, 'team')
+  allow(role, action)
+  return { user, role, teamId }
 }
 
 const accessJoin = (userId: number) => ({ model: Membership, as: 'access', where: { userId }, required: true, attributes: ['role'] })
@@ -112,8 +131,9 @@ export async function requireProject(event: H3Event, projectId: number, action: 
   const user = await requireUser(event)
   const project = await Project.findOne({ where: { id: projectId }, include: [accessJoin(user.id)] })
   if (!project?.access) throw new NotFoundError('project')
-  allow(project.access.role, action)
-  return { user, role: project.access.role, teamId: project.teamId, project }
+  const role = scopedRole(event, project.teamId, project.access.role, 'project')
+  allow(role, action)
+  return { user, role, teamId: project.teamId, project }
 }
 
 /** The link if the caller's team owns it, with the caller's role and the last editor. */
@@ -124,8 +144,9 @@ export async function requireLink(event: H3Event, linkId: number, action: Action
     include: [accessJoin(user.id), { model: User, as: 'updater', attributes: ['id', 'name'] }],
   })
   if (!link?.access) throw new NotFoundError('link')
-  allow(link.access.role, action)
-  return { user, role: link.access.role, teamId: link.teamId, link }
+  const role = scopedRole(event, link.teamId, link.access.role, 'link')
+  allow(role, action)
+  return { user, role, teamId: link.teamId, link }
 }
 
 /**
@@ -144,8 +165,9 @@ export async function requirePart(event: H3Event, partId: number, action: Action
     return { user, role: null, teamId: null, part }
   }
   if (!part.access) throw new NotFoundError('part')
-  allow(part.access.role, action)
-  return { user, role: part.access.role as Role | null, teamId: part.teamId as number | null, part }
+  const role = scopedRole(event, part.teamId, part.access.role, 'part')
+  allow(role, action)
+  return { user, role: role as Role | null, teamId: part.teamId as number | null, part }
 }
 
 /** The client's IP for rate limiting (X-Forwarded-For only when trusted). */

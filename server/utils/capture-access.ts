@@ -20,14 +20,16 @@ export async function requireCapture(event: H3Event, captureId: number, action: 
     attributes: { exclude: opts.waveform ? ['result'] : ['waveform'] },
   })
   if (!capture?.access) throw new NotFoundError('capture')
-  if (!can(capture.access.role, action)) throw new ForbiddenError(`a ${capture.access.role} may not do this (${action})`)
-  return { user, role: capture.access.role, capture }
+  const role = scopedRole(event, capture.teamId, capture.access.role, 'capture')
+  if (!can(role, action)) throw new ForbiddenError(`a ${role} may not do this (${action})`)
+  return { user, role, capture }
 }
 
 export async function requireDatasheet(event: H3Event, datasheetId: number, action: Action) {
   const user = await requireUser(event)
   const datasheet = await PartDatasheet.findOne({ where: { id: datasheetId }, include: [accessJoin(user.id), ownerJoin] })
   if (!datasheet?.access) throw new NotFoundError('datasheet')
-  if (!can(datasheet.access.role, action)) throw new ForbiddenError(`a ${datasheet.access.role} may not do this (${action})`)
-  return { user, role: datasheet.access.role, datasheet }
+  const role = scopedRole(event, datasheet.teamId, datasheet.access.role, 'datasheet')
+  if (!can(role, action)) throw new ForbiddenError(`a ${role} may not do this (${action})`)
+  return { user, role, datasheet }
 }

@@ -16,7 +16,7 @@ export async function requireReport(event: H3Event, reportId: number, action: Ac
     include: [{ model: Membership, as: 'access', where: { userId: user.id }, required: true, attributes: ['role'] }],
   })
   if (!report?.access) throw new NotFoundError('report')
-  const role = report.access.role
+  const role = scopedRole(event, report.teamId, report.access.role, 'report')
   if (!can(role, action)) throw new ForbiddenError(`a ${role} may not do this (${action})`)
   return { user, role, teamId: report.teamId, report }
 }

@@ -81,3 +81,20 @@ export interface SessionDto {
   /** the session of this request */
   current: boolean
 }
+
+/** One of the user's API tokens as the account page lists it (never the token itself). */
+export interface ApiTokenDto {
+  id: number
+  name: string
+  teamId: number
+  teamName: string
+  scope: 'read' | 'edit'
+  createdAt: string
+  expiresAt: string | null
+  lastUsedAt: string | null
+}
+
+/** Answer of creating a token: the token itself, shown this once. */
+export interface CreatedApiTokenDto extends ApiTokenDto {
+  token: string
+}

@@ -19,7 +19,7 @@ export interface ApiClient {
   /** forget the session cookie */
   reset(): void
   /** a second client holding the same cookies (a sign-out or sign-up on it leaves this one as it is) */
-  clone(opts?: { ip?: string; baseURL?: string }): ApiClient
+  clone(opts?: { ip?: string; baseURL?: string; bearer?: string }): ApiClient
   readonly signedIn: boolean
   /** the Cookie header this client sends (for multipart uploads by hand) */
   readonly cookie: string
@@ -31,8 +31,11 @@ function randomIp(): string {
   return `10.${b()}.${b()}.${b()}`
 }
 
-/** A client of the suite's server, or of another one (baseURL: a spare server, the proxy of the scale-out tests). */
-export function apiClient(opts: { ip?: string; baseURL?: string } = {}, cookies?: Map<string, string>): ApiClient {
+/**
+ * A client of the suite's server, or of another one (baseURL: a spare server, the proxy of the
+ * scale-out tests); with `bearer`, a script's client that sends an API token on every request.
+ */
+export function apiClient(opts: { ip?: string; baseURL?: string; bearer?: string } = {}, cookies?: Map<string, string>): ApiClient {
   const baseURL = opts.baseURL ?? inject('baseURL')
   opts = { ...opts, ip: opts.ip ?? randomIp() }
   const jar = new Map<string, string>(cookies)
@@ -44,6 +47,7 @@ export function apiClient(opts: { ip?: string; baseURL?: string } = {}, cookies?
         ...(body !== undefined ? { 'content-type': 'application/json' } : {}),
         ...(jar.size ? { cookie: [...jar].map(([k, v]) => `${k}=${v}`).join('; ') } : {}),
         ...(opts.ip ? { 'x-forwarded-for': opts.ip } : {}),
+        ...(opts.bearer ? { authorization: `Bearer ${opts.bearer}` } : {}),
         ...headers,
       },
       body: body === undefined ? undefined : typeof body === 'string' ? body : JSON.stringify(body),

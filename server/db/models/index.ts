@@ -21,13 +21,15 @@ import { User } from './user'
 import { UserSession } from './user-session'
 import { RateEvent } from './rate-event'
 import { PendingSignUp } from './pending-sign-up'
+import { ApiToken } from './api-token'
 
-export { Capture, PartDatasheet, UserSession, RateEvent, PendingSignUp }
+export { Capture, PartDatasheet, UserSession, RateEvent, PendingSignUp, ApiToken }
 export { AuditEntry, Invitation, Link, Membership, Part, PasswordResetToken, Project, ReportComment, ReportEvent, ReportRevision, SignInAttempt, Team, User }
 
 export function initModels(sequelize: Sequelize) {
   User.initModel(sequelize)
   UserSession.initModel(sequelize)
+  ApiToken.initModel(sequelize)
   RateEvent.initModel(sequelize)
   PendingSignUp.initModel(sequelize)
   Team.initModel(sequelize)
@@ -48,6 +50,8 @@ export function initModels(sequelize: Sequelize) {
   User.hasMany(Membership, { foreignKey: 'userId', as: 'memberships' })
   Membership.belongsTo(User, { foreignKey: 'userId', as: 'user' })
   UserSession.belongsTo(User, { foreignKey: 'userId', as: 'user' })
+  ApiToken.belongsTo(User, { foreignKey: 'userId', as: 'user' })
+  ApiToken.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })
   Team.hasMany(Membership, { foreignKey: 'teamId', as: 'memberships' })
   Membership.belongsTo(Team, { foreignKey: 'teamId', as: 'team' })
 

@@ -7,7 +7,7 @@
 import { randomUUID } from 'node:crypto'
 import { readdirSync } from 'node:fs'
 import { beforeAll, describe, expect, it } from 'vitest'
-import type { ApiClient } from '../../support/api'
+import { apiClient, type ApiClient } from '../../support/api'
 import { linkIn, waitForMail } from '../../support/mail'
 import { buildWorld, CALLERS, type Caller, type World } from '../../factories/world'
 import { buildUser, signedIn, uniqueEmail } from '../../factories/users'
@@ -62,6 +62,14 @@ async function ownSessionId(caller: Caller): Promise<number> {
   return (list.data as { id: number; current: boolean }[]).find((s) => s.current)!.id
 }
 
+/** A token of the caller's own to revoke (a made-up id when signed out, or for a token caller). */
+async function ownTokenId(caller: Caller): Promise<number> {
+  if (caller === 'signedOut') return 1
+  const res = await w.clients[caller].post('/api/auth/tokens', { name: 'to revoke', teamId: caller === 'outsider' ? w.otherTeamId : w.teamId, scope: 'read' })
+  expect(res.status).toBe(201)
+  return res.data.id as number
+}
+
 async function freshInvitation() {
   const email = uniqueEmail('matrix')
   const res = await admin().post(`/api/teams/${w.teamId}/invitations`, { email, role: 'viewer' })
@@ -80,6 +88,9 @@ const rows: Row[] = [
   { method: 'DELETE', route: '/api/auth/sessions', request: async (caller) => ({ path: '/api/auth/sessions', client: await standIn(caller) }), expected: [401, 204, 204, 204, 204, 204] },
   { method: 'DELETE', route: '/api/auth/sessions/[sessionId]', request: async (caller) => ({ path: `/api/auth/sessions/${await ownSessionId(caller)}` }), expected: [401, 204, 204, 204, 204, 204] },
   { method: 'GET', route: '/api/auth/me', request: async () => ({ path: '/api/auth/me' }), expected: SIGNED_IN },
+  { method: 'GET', route: '/api/auth/tokens', request: async () => ({ path: '/api/auth/tokens' }), expected: SIGNED_IN },
+  { method: 'POST', route: '/api/auth/tokens', request: async (caller) => ({ path: '/api/auth/tokens', body: { name: 'matrix', teamId: caller === 'outsider' ? w.otherTeamId : w.teamId, scope: 'read' } }), expected: [401, 201, 201, 201, 201, 201] },
+  { method: 'DELETE', route: '/api/auth/tokens/[tokenId]', request: async (caller) => ({ path: `/api/auth/tokens/${await ownTokenId(caller)}` }), expected: [401, 204, 204, 204, 204, 204] },
   { method: 'POST', route: '/api/auth/password-reset', request: async () => ({ path: '/api/auth/password-reset', body: { email: uniqueEmail('nobody') } }), expected: [202, 202, 202, 202, 202, 202] },
   { method: 'POST', route: '/api/auth/password-reset/complete', request: async () => ({ path: '/api/auth/password-reset/complete', body: { token: randomUUID().replace(/-/g, ''), password: 'matrix password' } }), expected: [400, 400, 400, 400, 400, 400] },
   { method: 'GET', route: '/api/invitations/[token]', request: async () => ({ path: `/api/invitations/${(await freshInvitation()).token}` }), expected: PUBLIC },
@@ -171,6 +182,43 @@ describe('authorisation matrix', () => {
     const covered = new Set(rows.map((r) => `${r.method} ${r.route.replace(/ \(.*\)$/, '')}`))
     expect(routes.length).toBeGreaterThan(30)
     expect(routes.filter((r) => !covered.has(r))).toEqual([])
+  })
+})
+
+/**
+ * The same routes with API tokens instead of sessions: a read token acts as a viewer, an edit
+ * token as an engineer (an admin's edit token too: never more than its scope), a token of
+ * another team as a non-member; account routes and invitations refuse every token (403).
+ */
+const TOKEN_CALLERS = [
+  { name: 'read token of an engineer', owner: 'engineer', scope: 'read', actsAs: 'viewer' },
+  { name: 'edit token of an engineer', owner: 'engineer', scope: 'edit', actsAs: 'engineer' },
+  { name: 'edit token of an admin', owner: 'admin', scope: 'edit', actsAs: 'engineer' },
+  { name: 'edit token of another team\'s admin', owner: 'outsider', scope: 'edit', actsAs: 'outsider' },
+] as const
+const SESSION_ONLY = /^\/api\/(auth|invitations)\//
+const tokens: Record<string, string> = {}
+
+describe('authorisation matrix with API tokens', () => {
+  beforeAll(async () => {
+    for (const t of TOKEN_CALLERS) {
+      const teamId = t.owner === 'outsider' ? w.otherTeamId : w.teamId
+      const res = await w.clients[t.owner].post('/api/auth/tokens', { name: `matrix ${t.scope}`, teamId, scope: t.scope })
+      expect(res.status, JSON.stringify(res.data)).toBe(201)
+      tokens[t.name] = res.data.token
+    }
+  })
+
+  describe.each(rows)('$method $route', (row) => {
+    it.each(TOKEN_CALLERS.map((t) => ({ ...t, status: SESSION_ONLY.test(row.route) ? 403 : row.expected[CALLERS.indexOf(t.actsAs)]! })))(
+      'with the $name -> $status',
+      async ({ name, actsAs, status }) => {
+        const { path, body } = await row.request(actsAs)
+        const client = apiClient({ bearer: tokens[name], ip: `10.78.${TOKEN_CALLERS.findIndex((t) => t.name === name)}.1` })
+        const res = await client.request(row.method, path, body)
+        expect(res.status, `${row.method} ${path} with the ${name}: ${JSON.stringify(res.data).slice(0, 300)}`).toBe(status)
+      },
+    )
   })
 })
 
