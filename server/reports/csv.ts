@@ -5,6 +5,7 @@
  * computed them, so a spreadsheet can recompute with them; each header names its unit.
  */
 import { toCsv } from '../../shared/utils/csv'
+import { REPORT_TABLES, type ReportTable } from '../../shared/schemas/report'
 import type { LinkAnalysis, PullupSweepResult } from '../../shared/types/analysis'
 import type { ReadingThresholds } from '../../shared/report/vocabulary'
 import {
@@ -19,8 +20,7 @@ import {
 } from '../../shared/report/tables'
 
 /** Tables a revision can export. */
-export const REPORT_TABLES = ['bits', 'checks', 'candidates', 'standard-rates', 'rate-sweep', 'stages', 'pullup'] as const
-export type ReportTable = (typeof REPORT_TABLES)[number]
+export { REPORT_TABLES, type ReportTable }
 
 /** Which tables exist for this result (UART: bits, rates; SPI: checks, candidates). */
 export function availableTables(a: LinkAnalysis, hasPullup: boolean): ReportTable[] {

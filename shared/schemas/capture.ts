@@ -36,3 +36,8 @@ export interface CaptureOptions {
   inverting?: boolean
   rl?: number
 }
+
+/** GET /api/captures/:id/waveform: the plot's width in pixels; at most this many min/max columns come back. */
+export const WaveformQuery = z.object({
+  width: z.coerce.number().int('width must be an integer').min(50, 'width must be at least 50').max(4000, 'width must be at most 4000').optional(),
+})

@@ -81,3 +81,11 @@ export const CommentBody = z.object({
   target: CommentTarget.default({ kind: 'report' }),
 })
 export type CommentBody = z.infer<typeof CommentBody>
+
+/** The tables of a revision as CSV (GET /reports/:id/tables.csv?table=). */
+export const REPORT_TABLES = ['bits', 'checks', 'candidates', 'standard-rates', 'rate-sweep', 'stages', 'pullup'] as const
+export type ReportTable = (typeof REPORT_TABLES)[number]
+export const ReportTablesQuery = z.object({ table: z.enum(REPORT_TABLES, { error: `table must be one of ${REPORT_TABLES.join(', ')}` }) })
+
+/** GET /reports/:id/report.pdf: the paper size, and whether the browser saves it rather than shows it. */
+export const ReportPdfQuery = z.object({ paper: z.enum(['a4', 'letter']).default('a4'), download: z.enum(['0', '1']).default('0') })

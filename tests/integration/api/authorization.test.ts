@@ -96,6 +96,7 @@ const rows: Row[] = [
   { method: 'GET', route: '/api/invitations/[token]', request: async () => ({ path: `/api/invitations/${(await freshInvitation()).token}` }), expected: PUBLIC },
   { method: 'POST', route: '/api/invitations/[token]/accept', request: async () => ({ path: `/api/invitations/${(await freshInvitation()).token}/accept`, body: { name: 'Invited Person', password: 'matrix password' } }), expected: PUBLIC },
   { method: 'GET', route: '/api/config', request: async () => ({ path: '/api/config' }), expected: PUBLIC },
+  { method: 'GET', route: '/api/openapi.json', request: async () => ({ path: '/api/openapi.json' }), expected: PUBLIC },
 
   // teams
   { method: 'GET', route: '/api/teams', request: async () => ({ path: '/api/teams' }), expected: SIGNED_IN },

@@ -1,11 +1,6 @@
-import { z } from 'zod'
+import { WaveformQuery } from '../../../../shared/schemas/capture'
 import { mergeBuckets } from '../../../captures/downsample'
 import { ConflictError } from '../../../utils/errors'
-
-const WaveformQuery = z.object({
-  /** the plot's width in pixels: at most this many min/max columns come back */
-  width: z.coerce.number().int('width must be an integer').min(50, 'width must be at least 50').max(4000, 'width must be at most 4000').optional(),
-})
 
 /** The capture's display waveform (min/max per bucket, merged to ?width= columns); 409 until the extraction is done. */
 export default defineApiHandler(async (event) => {

@@ -1,17 +1,15 @@
-import { z } from 'zod'
+import { ReportPdfQuery } from '../../../../shared/schemas/report'
 import { latestNumber, loadRevision } from '../../../domain/reports'
 import { presentReport } from '../../../presenters/report'
 import { reportFonts } from '../../../reports/fonts'
 import { buildReportPdf } from '../../../reports/pdf'
-
-const Query = z.object({ paper: z.enum(['a4', 'letter']).default('a4'), download: z.enum(['0', '1']).default('0') })
 
 /** The revision as a PDF (any member): the same document for everyone, A4 or Letter. */
 export default defineApiHandler(async (event) => {
   await requireUser(event)
   const { reportId } = await validParams(event, idParams('reportId'))
   const { role, user, report } = await requireReport(event, reportId, 'report.read')
-  const { paper, download } = await validQuery(event, Query)
+  const { paper, download } = await validQuery(event, ReportPdfQuery)
   const dto = presentReport(await loadRevision(report.id), role, user.id, await latestNumber(report.linkId))
   const pdf = await buildReportPdf(dto, await reportFonts(), paper === 'letter' ? 'LETTER' : 'A4')
   sendAs(event, 'application/pdf', `${fileSlug(dto.linkName)}-${dto.label}.pdf`, download === '0')
