@@ -3,66 +3,10 @@
  * that differs, by path) and in their margins (the verdict, the worst margin or slack, the
  * maximum rate, and every bit's margin or every SPI check's slack), biggest change first.
  */
-import type { Link } from '../shared/schemas/link'
-import type { LinkAnalysis } from '../shared/types/analysis'
-import { diffSpecs } from '../shared/utils/specDiff'
+import { type LinkDiff, type MarginChange } from '../shared/report/compare'
 import { formatEng, formatUi } from '../shared/utils/units'
 
-export interface MarginChange {
-  /** what is compared: "worst margin", "bit d7", "check mosi-setup", "maximum rate" */
-  what: string
-  unit: 'UI' | 's' | 'Bd' | 'Hz'
-  a: number | null
-  b: number | null
-  /** b - a; null when either side has none */
-  change: number | null
-}
-
-export interface LinkDiff {
-  inputs: { path: string; a: unknown; b: unknown }[]
-  verdict: { a: string; b: string }
-  margins: MarginChange[]
-}
-
-const change = (what: string, unit: MarginChange['unit'], a: number | null | undefined, b: number | null | undefined): MarginChange => ({
-  what,
-  unit,
-  a: a ?? null,
-  b: b ?? null,
-  change: a === null || a === undefined || b === null || b === undefined ? null : b - a,
-})
-
-/** The size of a change for ordering: relative for rates, absolute UI for margins, slack against the half period. */
-function weight(c: MarginChange, halfPeriod: number): number {
-  if (c.change === null) return c.a === c.b ? 0 : Number.POSITIVE_INFINITY
-  if (c.unit === 'Bd' || c.unit === 'Hz') return Math.abs(c.change) / Math.max(Math.abs(c.a ?? 0), Math.abs(c.b ?? 0), 1)
-  if (c.unit === 's') return Math.abs(c.change) / (halfPeriod || 1)
-  return Math.abs(c.change)
-}
-
-export function diffLinks(a: Link, b: Link, ra: LinkAnalysis, rb: LinkAnalysis): LinkDiff {
-  const margins: MarginChange[] = []
-  if (ra.uart || rb.uart) {
-    margins.push(change('worst margin', 'UI', ra.uart?.worstMarginUi, rb.uart?.worstMarginUi))
-    margins.push(change('maximum rate', 'Bd', ra.uart?.maxBaud, rb.uart?.maxBaud))
-    const labels = [...new Set([...(ra.uart?.bits ?? []), ...(rb.uart?.bits ?? [])].map((x) => x.label))]
-    for (const label of labels)
-      margins.push(change(`bit ${label}`, 'UI', ra.uart?.bits.find((x) => x.label === label)?.marginUi, rb.uart?.bits.find((x) => x.label === label)?.marginUi))
-  }
-  if (ra.spi || rb.spi) {
-    margins.push(change('worst slack', 's', ra.spi?.worstSlack, rb.spi?.worstSlack))
-    margins.push(change('maximum SCLK', 'Hz', ra.spi?.maxSclkHz, rb.spi?.maxSclkHz))
-    const ids = [...new Set([...(ra.spi?.checks ?? []), ...(rb.spi?.checks ?? [])].map((x) => x.id))]
-    for (const id of ids) margins.push(change(`check ${id}`, 's', ra.spi?.checks.find((x) => x.id === id)?.slack, rb.spi?.checks.find((x) => x.id === id)?.slack))
-  }
-  const halfPeriod = rb.spi?.halfPeriod ?? ra.spi?.halfPeriod ?? 0
-  const changed = margins.filter((m) => m.a !== m.b).sort((x, y) => weight(y, halfPeriod) - weight(x, halfPeriod))
-  return {
-    inputs: diffSpecs(a, b).map((d) => ({ path: d.path, a: d.mine, b: d.theirs })),
-    verdict: { a: ra.verdict, b: rb.verdict },
-    margins: changed,
-  }
-}
+export { diffLinks } from '../shared/report/compare'
 
 const show = (v: unknown) => (v === undefined ? '(none)' : typeof v === 'string' ? v : JSON.stringify(v))
 

@@ -100,6 +100,13 @@ const paths: ZodOpenApiPathsObject = {
   '/api/reports/{reportId}/recompute': {
     get: op('Recompute a revision', 'Reports', { description: 'The frozen inputs analysed by the current engine, beside the frozen result.', requestParams: { path: id('reportId', 'report') }, responses: { '200': analysis } }),
   },
+  '/api/reports/{reportId}/compare': {
+    get: op('Compare two revisions', 'Reports', {
+      description: 'This revision against another revision of the same link (by default the one before it), from both frozen inputs and results: the changed inputs by settings and stage, the verdicts, every margin change, biggest first.',
+      requestParams: { path: id('reportId', 'report'), query: z.object({ with: z.number().int().positive().optional().meta({ description: 'the other revision\'s id (default: the revision before this one)' }) }) },
+      responses: { '200': described('from, to, verdict {a, b}, inputs [{title, changes [{path, a, b}]}], margins [{what, unit, a, b, change}]'), '409': described('a first revision has nothing before it') },
+    }),
+  },
   '/api/reports/{reportId}/reviewers': {
     get: op('Who may review', 'Reports', { requestParams: { path: id('reportId', 'report') }, responses: { '200': described('the team\'s reviewers and admins') } }),
   },

@@ -10,11 +10,12 @@
  */
 import PDFDocument from 'pdfkit'
 import { REPORT_STATE_LABEL } from '../../shared/schemas/report'
-import type { ReportDetailDto } from '../../shared/types/report'
+import type { ReportDetailDto, RevisionComparisonDto } from '../../shared/types/report'
 import { Layout, pdfText, REPORT_FONT_FILES, type Doc, type ReportFonts } from './pdf/layout'
 import {
   bitsSection,
   capturesSection,
+  changesSection,
   commentTargetText,
   notesSection,
   pullupSection,
@@ -33,8 +34,8 @@ export type PaperSize = 'A4' | 'LETTER'
 /** The sections in the order the report reads. */
 const SECTIONS = [titleSection, summarySection, stagesSection, settingsSection, bitsSection, spiSection, ratesSection, pullupSection, capturesSection, notesSection, reviewSection]
 
-/** Build the PDF of one revision. */
-export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts, paper: PaperSize = 'A4'): Promise<Buffer> {
+/** Build the PDF of one revision (after r1, with what changed since the revision before it). */
+export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts, paper: PaperSize = 'A4', changes: RevisionComparisonDto | null = null): Promise<Buffer> {
   const doc: Doc = new PDFDocument({
     size: paper,
     margins: { top: 56, bottom: 56, left: 50, right: 50 },
@@ -55,7 +56,10 @@ export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts
     doc.on('error', reject)
   })
   const layout = new Layout(doc, fonts)
-  for (const section of SECTIONS) section(layout, report)
+  for (const section of SECTIONS) {
+    section(layout, report)
+    if (section === summarySection) changesSection(layout, report, changes)
+  }
   layout.footers(`${report.linkName} · ${report.label} · ${REPORT_STATE_LABEL[report.state]} · engine ${report.engineVersion}`)
   doc.end()
   return done

@@ -206,3 +206,14 @@ export interface LatestRevisionDto {
   verdict: 'pass' | 'marginal' | 'fail'
   createdAt: string
 }
+
+/** Two revisions of one link compared (GET /api/reports/:id/compare): the earlier one, the later one, what changed between them. */
+export interface RevisionComparisonDto {
+  from: { id: number; label: string; verdict: string; linkVersion: number; state: ReportState }
+  to: { id: number; label: string; verdict: string; linkVersion: number; state: ReportState }
+  verdict: { a: string; b: string }
+  /** input changes by settings and by stage */
+  inputs: import('../report/compare').InputGroup[]
+  /** margin changes, biggest first */
+  margins: import('../report/compare').MarginChange[]
+}

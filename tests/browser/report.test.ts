@@ -151,4 +151,24 @@ describe('margin report in the browser', () => {
     await page.waitForURL(/\/links\/\d+$/)
     await page.getByRole('heading', { level: 1, name: 'Imported debug UART' }).waitFor()
   })
+
+  it('compares the revision with the one before it: verdicts, margins biggest first, changed inputs', async () => {
+    const page = browser.page
+    const link = (await world.clients.engineer.get(`/api/links/${linkId}`)).data
+    const spec = structuredClone(link.spec)
+    spec.uart.baud = 9600
+    expect((await world.clients.engineer.patch(`/api/links/${linkId}`, { version: link.version, spec })).status).toBe(200)
+    const later = await world.clients.engineer.post(`/api/links/${linkId}/reports`, {})
+    expect(later.status).toBe(201)
+    await signIn(page, world.users.reviewer.email)
+    await page.goto(`${baseURL}/reports/${later.data.id}`)
+    const compare = page.getByTestId('report-compare')
+    await compare.getByTestId('compare-margins').waitFor()
+    expect(await compare.getByTestId('compare-with').locator('option:checked').textContent()).toMatch(/^r\d+/)
+    const firstRow = compare.getByTestId('compare-margins').locator('tbody tr').first()
+    expect(await firstRow.textContent()).toMatch(/UI|Bd/)
+    expect(await compare.getByTestId('compare-input-group').filter({ hasText: 'UART settings' }).textContent()).toContain('uart.baud')
+    await compare.scrollIntoViewIfNeeded()
+    await screenshot(page, 'report-compare')
+  })
 })

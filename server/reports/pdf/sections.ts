@@ -6,7 +6,8 @@
  * the shared report vocabulary's.
  */
 import { REPORT_STATE_LABEL } from '../../../shared/schemas/report'
-import type { ReportDetailDto } from '../../../shared/types/report'
+import type { ReportDetailDto, RevisionComparisonDto } from '../../../shared/types/report'
+import type { MarginChange } from '../../../shared/report/compare'
 import type { SummaryStats } from '../../../shared/types/capture'
 import {
   MARGIN_LABEL,
@@ -315,4 +316,27 @@ export function commentTargetText(t: Report['comments'][number]['target'], a?: R
   }
   const label = a?.uart?.byChannel.find((c) => c.channelId === t.channelId)?.bits[t.index]?.label
   return `Bit ${label ?? t.index} of ${t.channelId}`
+}
+
+const changeValue = (v: number | null, unit: MarginChange['unit']) => (v === null ? 'none' : unit === 'UI' ? formatUi(v) : eng(v, unit))
+const changeDelta = (m: MarginChange) => (m.change === null ? '' : `  (${m.unit === 'UI' ? formatUi(m.change) : `${m.change >= 0 ? '+' : ''}${eng(m.change, m.unit)}`})`)
+const inputValue = (v: unknown) => (v === undefined ? '(none)' : typeof v === 'string' ? v : typeof v === 'number' ? String(Number(v.toPrecision(6))) : JSON.stringify(v))
+
+/** A revision after r1: what changed since the one before it, inputs by stage and settings, the margins biggest change first. */
+export function changesSection(L: Layout, r: Report, changes: RevisionComparisonDto | null) {
+  if (!changes) return
+  L.heading(`Changes since ${changes.from.label}`)
+  L.note(`From ${changes.from.label} (link version ${changes.from.linkVersion}, ${REPORT_STATE_LABEL[changes.from.state]}) to ${r.label} (link version ${changes.to.linkVersion}), from the frozen inputs and results of both.`)
+  L.doc.moveDown(0.3)
+  L.keyValues([['Verdict', `${changes.verdict.a} -> ${changes.verdict.b}`]])
+  if (!changes.inputs.length) L.note('No input changed.')
+  for (const g of changes.inputs) {
+    L.subheading(g.title)
+    L.keyValues(g.changes.map((c) => [c.path, `${inputValue(c.a)} -> ${inputValue(c.b)}`] as [string, string]), 190)
+  }
+  if (changes.margins.length) {
+    L.subheading('Margins, biggest change first')
+    L.keyValues(changes.margins.slice(0, 24).map((m) => [m.what, `${changeValue(m.a, m.unit)} -> ${changeValue(m.b, m.unit)}${changeDelta(m)}`] as [string, string]), 190)
+    if (changes.margins.length > 24) L.note(`${changes.margins.length - 24} smaller changes are on the report page's comparison.`)
+  }
 }
