@@ -79,6 +79,9 @@ const paths: ZodOpenApiPathsObject = {
   '/api/links/{linkId}/analysis': {
     get: op('Analyse a stored link', 'Analysis', { description: 'The saved link analysed now by the current engine; 409 while values are still to enter.', requestParams: { path: id('linkId', 'link') }, responses: { '200': analysis, '409': described('values still to enter') } }),
   },
+  '/api/links/{linkId}/since-sign-off': {
+    get: op('What changed since the sign-off', 'Links', { description: 'The link\'s latest signed-off revision (frozen inputs and result) against the link as saved now, analysed by the current engine.', requestParams: { path: id('linkId', 'link') }, responses: { '200': described('from (the revision), to (the link now), verdict {a, b}, inputs by settings and stage, margins biggest change first'), '409': described('no revision of the link is signed off, or values still to enter') } }),
+  },
   '/api/links/{linkId}/captures': {
     get: op('List a link\'s captures', 'Captures', { requestParams: { path: id('linkId', 'link'), query: pageQuery(...PAGE_SIZES.captures) }, responses: { '200': listed('capture summaries (status, counts, means), newest first.') } }),
     post: op('Upload an oscilloscope capture', 'Captures', { description: 'A CSV or TSV export (multipart field `file`) with these text fields; the edges are extracted in the background (202).', requestParams: { path: id('linkId', 'link') }, requestBody: { content: { 'multipart/form-data': { schema: CaptureUploadFields.extend({ file: z.string().meta({ format: 'binary', description: 'the capture file' }) }) } } }, responses: { '202': described('the capture, queued') } }),

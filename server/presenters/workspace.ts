@@ -1,6 +1,6 @@
 /** Project, link and part DTOs (shared/types/workspace.ts) from models. */
 import type { Role } from '../../shared/schemas/roles'
-import type { LinkDto, LinkSummaryDto, PartDto, ProjectDetailDto, ProjectDto } from '../../shared/types/workspace'
+import type { LinkDto, LinkSummaryDto, PartDto, ProjectDetailDto, ProjectDto, SignOffRef } from '../../shared/types/workspace'
 import type { Link, Part, Project } from '../db/models'
 
 export function presentProject(p: Project, linkCount: number): ProjectDto {
@@ -16,7 +16,7 @@ export function presentProject(p: Project, linkCount: number): ProjectDto {
   }
 }
 
-export function presentLinkSummary(l: Link): LinkSummaryDto {
+export function presentLinkSummary(l: Link, signedOff?: SignOffRef | null): LinkSummaryDto {
   return {
     id: l.id,
     name: l.name,
@@ -30,15 +30,16 @@ export function presentLinkSummary(l: Link): LinkSummaryDto {
     maxSclkHz: l.summary?.maxSclkHz ?? null,
     engineVersion: l.summary?.engineVersion ?? null,
     updatedAt: l.updatedAt.toISOString(),
+    ...(signedOff !== undefined ? { signedOff } : {}),
   }
 }
 
 /** A project with the first page of its links; linkCount counts them all. */
-export function presentProjectDetail(p: Project, links: Link[], role: Role, linkCount = links.length): ProjectDetailDto {
-  return { ...presentProject(p, linkCount), role, links: links.map(presentLinkSummary) }
+export function presentProjectDetail(p: Project, links: Link[], role: Role, linkCount = links.length, signOffs?: Map<number, SignOffRef>): ProjectDetailDto {
+  return { ...presentProject(p, linkCount), role, links: links.map((l) => presentLinkSummary(l, signOffs ? (signOffs.get(l.id) ?? null) : undefined)) }
 }
 
-export function presentLink(l: Link, role: Role): LinkDto {
+export function presentLink(l: Link, role: Role, signedOff?: SignOffRef | null): LinkDto {
   return {
     id: l.id,
     projectId: l.projectId,
@@ -59,6 +60,7 @@ export function presentLink(l: Link, role: Role): LinkDto {
     updatedAt: l.updatedAt.toISOString(),
     updatedBy: l.updater ? { id: l.updater.id, name: l.updater.name } : null,
     role,
+    ...(signedOff !== undefined ? { signedOff } : {}),
   }
 }
 

@@ -207,10 +207,22 @@ export interface LatestRevisionDto {
   createdAt: string
 }
 
-/** Two revisions of one link compared (GET /api/reports/:id/compare): the earlier one, the later one, what changed between them. */
+/** One side of a comparison: a revision (with its review state), or the link as saved now (`version N`, no state). */
+export interface ComparisonSide {
+  id: number
+  label: string
+  verdict: string
+  linkVersion: number
+  state?: ReportState
+}
+
+/**
+ * Two revisions of one link compared (GET /api/reports/:id/compare), or a signed-off revision
+ * against the link as saved now (GET /api/links/:id/since-sign-off): what changed between them.
+ */
 export interface RevisionComparisonDto {
-  from: { id: number; label: string; verdict: string; linkVersion: number; state: ReportState }
-  to: { id: number; label: string; verdict: string; linkVersion: number; state: ReportState }
+  from: ComparisonSide
+  to: ComparisonSide
   verdict: { a: string; b: string }
   /** input changes by settings and by stage */
   inputs: import('../report/compare').InputGroup[]

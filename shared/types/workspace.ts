@@ -28,6 +28,8 @@ export interface LinkSummaryDto extends LinkSummaryFields {
   protocol: Protocol
   version: number
   updatedAt: string
+  /** the latest signed-off revision, null when none is */
+  signedOff?: SignOffRef | null
 }
 
 export interface PersonRef {
@@ -66,6 +68,8 @@ export interface LinkDto {
   updatedBy: PersonRef | null
   /** the caller's role in the link's team */
   role: Role
+  /** the latest signed-off revision, null when none is */
+  signedOff?: SignOffRef | null
 }
 
 export interface PartDto {
@@ -79,4 +83,16 @@ export interface PartDto {
   version: number
   stage: StageSpec
   updatedAt: string
+}
+
+/** The link's latest signed-off report revision, and whether the link was saved since (a sign-off never silently outlives its link). */
+export interface SignOffRef {
+  reportId: number
+  /** r1, r2... */
+  label: string
+  /** the link version the revision froze */
+  linkVersion: number
+  decidedAt: string | null
+  /** the link was saved after that version: the sign-off covers an earlier design */
+  changedSince: boolean
 }

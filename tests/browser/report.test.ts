@@ -171,4 +171,26 @@ describe('margin report in the browser', () => {
     await compare.scrollIntoViewIfNeeded()
     await screenshot(page, 'report-compare')
   })
+
+  it('a link saved after its sign-off says so on the link page, shows what changed and offers the next revision', async () => {
+    const page = browser.page
+    const revs = (await world.clients.engineer.get(`/api/links/${linkId}/reports`)).data as { id: number; state: string }[]
+    const signed = revs.find((r) => r.state === 'signed-off')
+    expect(signed, 'the first test signs a revision off').toBeTruthy()
+    const link = (await world.clients.engineer.get(`/api/links/${linkId}`)).data
+    const spec = structuredClone(link.spec)
+    spec.uart.baud = 4800
+    expect((await world.clients.engineer.patch(`/api/links/${linkId}`, { version: link.version, spec })).status).toBe(200)
+    await signIn(page, world.users.engineer.email)
+    await page.goto(`${baseURL}/links/${linkId}`)
+    const notice = page.getByTestId('sign-off-notice')
+    await notice.waitFor()
+    expect(await notice.textContent()).toMatch(/Changed since r\d+ was signed off/)
+    await notice.getByTestId('since-sign-off-toggle').click()
+    await notice.getByTestId('compare-margins').waitFor()
+    expect(await notice.getByTestId('compare-input-group').first().textContent()).toContain('uart.baud')
+    await screenshot(page, 'changed-since-sign-off')
+    await page.goto(`${baseURL}/projects/${projectId}`)
+    await page.getByTestId('changed-since-sign-off').first().waitFor()
+  })
 })

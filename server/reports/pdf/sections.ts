@@ -326,7 +326,7 @@ const inputValue = (v: unknown) => (v === undefined ? '(none)' : typeof v === 's
 export function changesSection(L: Layout, r: Report, changes: RevisionComparisonDto | null) {
   if (!changes) return
   L.heading(`Changes since ${changes.from.label}`)
-  L.note(`From ${changes.from.label} (link version ${changes.from.linkVersion}, ${REPORT_STATE_LABEL[changes.from.state]}) to ${r.label} (link version ${changes.to.linkVersion}), from the frozen inputs and results of both.`)
+  L.note(`From ${changes.from.label} (link version ${changes.from.linkVersion}, ${changes.from.state ? REPORT_STATE_LABEL[changes.from.state] : 'saved'}) to ${r.label} (link version ${changes.to.linkVersion}), from the frozen inputs and results of both.`)
   L.doc.moveDown(0.3)
   L.keyValues([['Verdict', `${changes.verdict.a} -> ${changes.verdict.b}`]])
   if (!changes.inputs.length) L.note('No input changed.')

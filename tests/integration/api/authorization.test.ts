@@ -132,6 +132,8 @@ const rows: Row[] = [
   { method: 'PATCH', route: '/api/links/[linkId]', request: async () => ({ path: `/api/links/${await freshLink()}`, body: { version: 1, spec: buildLinkSpec('debug', 'Edited') } }), expected: ENGINEER_EDIT },
   { method: 'DELETE', route: '/api/links/[linkId]', request: async () => ({ path: `/api/links/${await freshLink()}` }), expected: [401, 403, 204, 403, 204, 404] },
   { method: 'GET', route: '/api/links/[linkId]/analysis', request: async () => ({ path: `/api/links/${fixed.linkId}/analysis` }), expected: READ },
+  // a member reads it; the fixed link has no signed-off revision: 409
+  { method: 'GET', route: '/api/links/[linkId]/since-sign-off', request: async () => ({ path: `/api/links/${fixed.linkId}/since-sign-off` }), expected: [401, 409, 409, 409, 409, 404] },
 
   // compute: a session is enough, no team data is read
   { method: 'POST', route: '/api/analyze', request: async () => ({ path: '/api/analyze', body: buildLinkSpec('debug') }), expected: SIGNED_IN },

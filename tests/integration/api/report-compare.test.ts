@@ -92,3 +92,33 @@ describe('the PDF of a revision after r1', () => {
     expect(await pdfText(r1.id)).not.toContain('Changes since')
   })
 })
+
+describe('a sign-off never silently outlives its link', () => {
+  it('after r2 is signed off, a saved change marks the link "changed since r2" on the link and the project list, with what changed one call away', async () => {
+    expect((await w.clients.engineer.post(`/api/reports/${r2.id}/submit`, { reviewerId: w.users.reviewer.id })).status).toBe(200)
+    expect((await w.clients.reviewer.post(`/api/reports/${r2.id}/sign-off`, {})).status).toBe(200)
+    let link = (await w.clients.viewer.get(`/api/links/${linkId}`)).data
+    expect(link.signedOff).toMatchObject({ reportId: r2.id, label: 'r2', linkVersion: link.version, changedSince: false })
+    expect((await w.clients.viewer.get(`/api/links/${linkId}/since-sign-off`)).data.inputs).toEqual([])
+
+    const spec = structuredClone(link.spec)
+    spec.uart.baud = 19200
+    const saved = await w.clients.engineer.patch(`/api/links/${linkId}`, { version: link.version, spec })
+    expect(saved.status).toBe(200)
+    expect(saved.data.signedOff).toMatchObject({ label: 'r2', changedSince: true })
+    link = (await w.clients.viewer.get(`/api/links/${linkId}`)).data
+    expect(link.signedOff).toMatchObject({ reportId: r2.id, changedSince: true })
+    const project = (await w.clients.viewer.get(`/api/projects/${link.projectId}`)).data
+    expect(project.links.find((l: { id: number }) => l.id === linkId).signedOff).toMatchObject({ label: 'r2', changedSince: true })
+
+    const since = await w.clients.viewer.get(`/api/links/${linkId}/since-sign-off`)
+    expect(since.status).toBe(200)
+    expect(since.data.from).toMatchObject({ id: r2.id, label: 'r2', state: 'signed-off' })
+    expect(since.data.to).toMatchObject({ label: `version ${link.version}`, linkVersion: link.version })
+    expect(since.data.inputs.flatMap((g: { changes: unknown[] }) => g.changes)).toEqual([{ path: 'uart.baud', a: 9600, b: 19200 }])
+    // the signed-off revision itself is as it was signed
+    const rev = (await w.clients.viewer.get(`/api/reports/${r2.id}`)).data
+    expect(rev.state).toBe('signed-off')
+    expect(rev.input.uart.baud).toBe(9600)
+  })
+})

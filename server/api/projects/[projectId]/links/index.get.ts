@@ -1,4 +1,5 @@
 import { countLinks, linksOf } from '../../../../domain/projects'
+import { signOffsOf } from '../../../../domain/sign-offs'
 import { presentLinkSummary } from '../../../../presenters/workspace'
 
 /** One page of the project's links as summaries, by name. ?limit=200&offset=0 */
@@ -8,5 +9,6 @@ export default defineApiHandler(async (event) => {
   const { project } = await requireProject(event, projectId, 'link.read')
   const page = await validPage(event, ...PAGE_SIZES.links)
   const [links, count] = await Promise.all([linksOf(project.id, page), countLinks(project.id)])
-  return sendPage(event, links.map(presentLinkSummary), count, page)
+  const signOffs = await signOffsOf(links)
+  return sendPage(event, links.map((l) => presentLinkSummary(l, signOffs.get(l.id) ?? null)), count, page)
 })
