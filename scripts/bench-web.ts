@@ -17,9 +17,8 @@ import { createSequelize } from '../server/db/sequelize'
 import { Capture, initModels, Link } from '../server/db/models'
 import { TELEMETRY_LINK } from '../server/db/seeders/demo-links'
 import { analyzeLink } from '../server/timing'
-import { analyseCaptureStream } from '../server/captures/analyse'
 import { summariseCaptureResult } from '../shared/utils/capture-summary'
-import { delayedEdges, nrzEdges, sampleWave, toCsv } from '../tests/factories/captures'
+import { largeExtraction, storedCaptures } from '../tests/factories/captures'
 
 const one = process.env.ONE_URL!
 const all = process.env.ALL_URL!
@@ -81,34 +80,8 @@ async function crowdedLink(): Promise<{ crowded: number; plain: number }> {
     const demo = await Link.findOne({ where: { name: TELEMETRY_LINK.name }, rejectOnEmpty: true })
     const copy = (name: string) => Link.create({ ...demo.get({ plain: true }), id: undefined, name, version: 1 } as never)
     const [crowded, plain] = [await copy('Bench link, 100 captures'), await copy('Bench link, no capture')]
-    const bit = 2e-6
-    const input = nrzEdges(4000, bit, 1e-6, 5)
-    const output = delayedEdges(input, { tPLH: 300e-9, tPHL: 150e-9, inverting: true, jitterRms: 5e-9 })
-    const dt = 50e-9
-    const n = Math.ceil((4000 * bit + 4e-6) / dt)
-    const ramp = { kind: 'ramp', duration: 100e-9 } as const
-    const vin = sampleWave(n, 0, dt, { edges: input, low: 0, high: 3.3, rise: ramp, fall: ramp, noiseRms: 0.01, seed: 1 })
-    const vout = sampleWave(n, 0, dt, { edges: output, low: 0.1, high: 3.3, rise: ramp, fall: ramp, noiseRms: 0.02, seed: 2 })
-    const { result, waveform } = await analyseCaptureStream([toCsv(0, dt, [vin, vout], { header: ['Time (s),TX (V),RX (V)'] })], { input: 0, output: 1, inverting: true })
-    await Capture.bulkCreate(
-      Array.from({ length: 100 }, (_, i) => ({
-        linkId: crowded.id,
-        teamId: crowded.teamId,
-        ownerId: null,
-        label: `bench run ${i + 1}`,
-        objectKey: `captures/bench/${crowded.id}-${i}`,
-        fileName: `run-${i + 1}.csv`,
-        size: 12_000_000,
-        contentType: 'text/csv',
-        sha256: '0'.repeat(64),
-        options: { input: 0, output: 1, inverting: true },
-        status: 'done' as const,
-        progress: 1,
-        result,
-        summary: summariseCaptureResult(result),
-        waveform,
-      })),
-    )
+    const { result, waveform } = await largeExtraction()
+    await Capture.bulkCreate(storedCaptures({ linkId: crowded.id, teamId: crowded.teamId, ownerId: null, count: 100, keyPrefix: 'captures/bench' }, { result, waveform }))
     console.log(`  seeded: each capture's full result ${(JSON.stringify(result).length / 1024).toFixed(0)} kB, its summary ${(JSON.stringify(summariseCaptureResult(result)).length / 1024).toFixed(1)} kB`)
     return { crowded: crowded.id, plain: plain.id }
   } finally {

@@ -4,6 +4,8 @@
  * tPHL (by the output's direction), optionally inverted, with ramp or exponential edges
  * and seeded Gaussian noise.
  */
+import { analyseCaptureStream } from '../../server/captures/analyse'
+import { summariseCaptureResult } from '../../shared/utils/capture-summary'
 
 export type Polarity = 'rising' | 'falling'
 export interface SynthEdge { t50: number; polarity: Polarity }
@@ -163,4 +165,41 @@ export function couplerCapture(o: { tPLH: number; tPHL: number; inverting?: bool
   const vin = sampleWave(n, 0, dt, { edges: input, low: 0, high: 3.3, rise: { kind: 'ramp', duration: 20e-9 }, fall: { kind: 'ramp', duration: 20e-9 }, noiseRms: 0.01, seed: 1 })
   const vout = sampleWave(n, 0, dt, { edges: output, low: 0.2, high: 3.3, rise: { kind: 'exp', tau: 15e-6 / Math.log(9) }, fall: { kind: 'ramp', duration: 2e-6 }, noiseRms: 0.02, seed: 2 })
   return { text: toCsv(0, dt, [vin, vout], { header: ['Record Length,' + n, 'Time (s),TX pin (V),Coupler out (V)'] }), edges: input.length }
+}
+
+/**
+ * A long capture, extracted: 4,000 bit slots at 500 kBd, 50 ns sampling, fast edges, about 2,000
+ * edges a channel (a full result of several hundred kB), for the paging test and the web bench.
+ */
+export async function largeExtraction() {
+  const bit = 2e-6
+  const input = nrzEdges(4000, bit, 1e-6, 5)
+  const output = delayedEdges(input, { tPLH: 300e-9, tPHL: 150e-9, inverting: true, jitterRms: 5e-9 })
+  const dt = 50e-9
+  const n = Math.ceil((4000 * bit + 4e-6) / dt)
+  const ramp = { kind: 'ramp', duration: 100e-9 } as const
+  const vin = sampleWave(n, 0, dt, { edges: input, low: 0, high: 3.3, rise: ramp, fall: ramp, noiseRms: 0.01, seed: 1 })
+  const vout = sampleWave(n, 0, dt, { edges: output, low: 0.1, high: 3.3, rise: ramp, fall: ramp, noiseRms: 0.02, seed: 2 })
+  return analyseCaptureStream([toCsv(0, dt, [vin, vout], { header: ['Time (s),TX (V),RX (V)'] })], { input: 0, output: 1, inverting: true })
+}
+
+/** `count` stored capture rows of one link, all holding the same extraction (inserted in bulk, no upload). */
+export function storedCaptures(o: { linkId: number; teamId: number; ownerId: number | null; count: number; keyPrefix: string }, x: Awaited<ReturnType<typeof largeExtraction>>) {
+  return Array.from({ length: o.count }, (_, i) => ({
+    linkId: o.linkId,
+    teamId: o.teamId,
+    ownerId: o.ownerId,
+    label: `bench run ${i + 1}`,
+    objectKey: `${o.keyPrefix}/${o.linkId}-${i}`,
+    fileName: `run-${i + 1}.csv`,
+    size: 12_000_000,
+    contentType: 'text/csv',
+    sha256: '0'.repeat(64),
+    options: { input: 0, output: 1, inverting: true },
+    status: 'done' as const,
+    progress: 1,
+    result: x.result,
+    summary: summariseCaptureResult(x.result),
+    waveform: x.waveform,
+  }))
 }

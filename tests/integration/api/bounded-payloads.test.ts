@@ -6,12 +6,10 @@
  */
 import { beforeAll, describe, expect, it } from 'vitest'
 import { Capture } from '../../../server/db/models'
-import { analyseCaptureStream } from '../../../server/captures/analyse'
-import { summariseCaptureResult } from '../../../shared/utils/capture-summary'
 import type { CaptureDetailDto, CaptureDto, CaptureWaveform } from '../../../shared/types/capture'
 import { buildWorld, type World } from '../../factories/world'
 import { buildLink, buildLinkSpec, buildProject } from '../../factories/workspace'
-import { delayedEdges, nrzEdges, sampleWave, toCsv } from '../../factories/captures'
+import { largeExtraction, storedCaptures } from '../../factories/captures'
 import { useTestDb } from '../../factories/db'
 
 const CAPTURES = 100
@@ -24,20 +22,6 @@ let empty: number
 let projectId: number
 let builtInPartId: number
 
-/** A long capture: 4,000 bit slots at 500 kBd, 50 ns sampling, fast edges; about 2,000 edges a channel. */
-async function largeExtraction() {
-  const bit = 2e-6
-  const input = nrzEdges(4000, bit, 1e-6, 5)
-  const output = delayedEdges(input, { tPLH: 300e-9, tPHL: 150e-9, inverting: true, jitterRms: 5e-9 })
-  const dt = 50e-9
-  const n = Math.ceil((4000 * bit + 4e-6) / dt)
-  const ramp = { kind: 'ramp', duration: 100e-9 } as const
-  const vin = sampleWave(n, 0, dt, { edges: input, low: 0, high: 3.3, rise: ramp, fall: ramp, noiseRms: 0.01, seed: 1 })
-  const vout = sampleWave(n, 0, dt, { edges: output, low: 0.1, high: 3.3, rise: ramp, fall: ramp, noiseRms: 0.02, seed: 2 })
-  const text = toCsv(0, dt, [vin, vout], { header: ['Time (s),TX (V),RX (V)'] })
-  return analyseCaptureStream([text], { input: 0, output: 1, inverting: true })
-}
-
 beforeAll(async () => {
   w = await buildWorld()
   const project = await buildProject(w.clients.engineer, w.teamId)
@@ -48,23 +32,7 @@ beforeAll(async () => {
   const { result, waveform } = await largeExtraction()
   expect(result.channels[0]!.edgeCount).toBeGreaterThan(1500)
   useTestDb()
-  const rows = Array.from({ length: CAPTURES }, (_, i) => ({
-    linkId: crowded,
-    teamId: w.teamId,
-    ownerId: w.users.engineer.id,
-    label: `bench run ${i + 1}`,
-    objectKey: `captures/test/${crowded}-${i}`,
-    fileName: `run-${i + 1}.csv`,
-    size: 12_000_000,
-    contentType: 'text/csv',
-    sha256: '0'.repeat(64),
-    options: { input: 0, output: 1, inverting: true },
-    status: 'done' as const,
-    progress: 1,
-    result,
-    summary: summariseCaptureResult(result),
-    waveform,
-  }))
+  const rows = storedCaptures({ linkId: crowded, teamId: w.teamId, ownerId: w.users.engineer.id, count: CAPTURES, keyPrefix: 'captures/test' }, { result, waveform })
   await Capture.bulkCreate(rows)
 }, 120_000)
 
