@@ -657,3 +657,113 @@ export interface LinkAnalysis {
   /** the full parsed input (defaults filled in) */
   input: Link
 }
+
+
+// ---------------------------------------------------------------- CAN bit timing (section 4)
+
+/** One node's path between its CAN controller and the bus, through its isolator and transceiver, seconds (maximum values). */
+export interface CanNodeDelays {
+  /** isolator, controller TXD side to transceiver: propagation delay */
+  isolatorTx: number
+  /** transceiver driver: TXD to bus */
+  driver: number
+  /** transceiver receiver: bus to RXD */
+  receiver: number
+  /** isolator, transceiver RXD to controller */
+  isolatorRx: number
+}
+
+/** A bit-timing setting of a CAN controller and what it allows (ISO 11898-1 bit time: Sync_Seg 1 tq + Prop_Seg + Phase_Seg1 + Phase_Seg2). */
+export interface CanBitTiming {
+  /** baud-rate prescaler: tq = prescaler / CAN clock */
+  prescaler: number
+  tq: number
+  /** time quanta per bit */
+  tqPerBit: number
+  propSeg: number
+  phaseSeg1: number
+  phaseSeg2: number
+  sjw: number
+  /** (1 + Prop_Seg + Phase_Seg1) / tqPerBit */
+  samplePoint: number
+  /** oscillator tolerance by condition I (resynchronisation over 13 bits) and II (one SJW per 10 bits), and the smaller */
+  toleranceI: number
+  toleranceII: number
+  tolerance: number
+  /** Prop_Seg covers the round trip between the two most distant nodes */
+  loopFits: boolean
+  /** longest bus for which it would still fit, metres (null when even 0 m does not) */
+  maxLength: number | null
+}
+
+
+// ---------------------------------------------------------------- I2C bus sides (section 4)
+
+export type I2cMode = 'standard' | 'fast' | 'fast-plus'
+
+/** One side of an isolated I2C bus (SCL or SDA line): its supply, pull-up, capacitance and the lowest VIL of its devices. */
+export interface I2cSideInput {
+  vdd: number
+  /** pull-up resistor, ohms */
+  rp: number
+  /** bus capacitance of the line on this side, farads */
+  cb: number
+  /** the highest low level a driver on this side leaves (VOL at its sink current), volts; default the mode's 0.4 V (0.2 VDD at 2 V or less) */
+  vol?: number
+  /** the lowest VIL of the devices on this side, volts; default 0.3 VDD */
+  vilMin?: number
+  /** a static low-level offset the isolator puts on this side (some bidirectional isolators drive their low a few hundred mV above ground), volts */
+  isolatorLowOffset?: number
+}
+
+export interface I2cSideResult {
+  /** 30 %-70 % rise time 0.8473 Rp Cb, seconds */
+  rise: number
+  /** the mode's maximum rise time, seconds */
+  riseMax: number
+  /** smallest pull-up the drivers can sink: (VDD - VOL) / IOL, ohms */
+  rpMin: number
+  /** largest pull-up the rise time allows: tr(max) / (0.8473 Cb), ohms */
+  rpMax: number
+  /** the low level the devices see from the isolator, against their VIL (null without an offset) */
+  offsetLow: number | null
+  checks: { id: 'rise' | 'rp-min' | 'offset-vil' | 'capacitance'; pass: boolean; text: string }[]
+  pass: boolean
+}
+
+/** An isolated I2C bus: the controller's side a, the target's side b, the isolator between, SCL timing of the controller. */
+export interface I2cBusInput {
+  mode: I2cMode
+  a: I2cSideInput
+  b: I2cSideInput
+  isolator: {
+    /** a -> b propagation delays of a falling and of a rising edge (max), seconds */
+    abFall: number
+    abRise: number
+    /** b -> a propagation delay (max), seconds */
+    ba: number
+    /** input threshold of the isolator as a fraction of its side's VDD (the rising line is seen high there); default 0.5 */
+    threshold?: number
+  }
+  /** the target's data valid time tVD;DAT (max), seconds; default the mode's limit */
+  tVdDat?: number
+  /** the controller's SCL frequency, hertz */
+  fScl: number
+  /** the controller's SCL low time as a fraction of the period; default the mode's tLOW / (tLOW + tHIGH) */
+  dutyLow?: number
+}
+
+export type I2cCheckId = 'controller-low' | 'controller-high' | 'target-low' | 'target-high' | 'sda-round-trip' | 'mode-frequency'
+
+export interface I2cBusResult {
+  sides: { a: I2cSideResult; b: I2cSideResult }
+  /** SCL low and high at the controller and as the target sees them, seconds */
+  scl: { lowA: number; highA: number; lowB: number; highB: number }
+  /** SCL falling at a to the controller's side reading the target's SDA, seconds */
+  roundTrip: number
+  checks: { id: I2cCheckId; value: number; limit: number; slack: number; pass: boolean }[]
+  pass: boolean
+  /** the highest SCL frequency meeting every timing check at this duty, hertz, and the check that sets it */
+  maxFScl: number
+  limitedBy: I2cCheckId
+}
