@@ -767,3 +767,32 @@ export interface I2cBusResult {
   maxFScl: number
   limitedBy: I2cCheckId
 }
+
+
+// ---------------------------------------------------------------- RS-485 half-duplex turnaround (section 4)
+
+/** A half-duplex RS-485 transmitter behind isolators: the firmware's enable timing and the two paths to the bus, seconds. */
+export interface Rs485TurnaroundInput {
+  baud: number
+  /** bits of a frame from the start bit to the end of the last stop bit (10 for 8N1) */
+  frameBits: number
+  /** firmware: DE asserted this long before the start bit's edge leaves TX (0 when set in the same instruction) */
+  leadTime: number
+  /** firmware: DE released this long after the end of the last stop bit at TX (negative: released early, e.g. on a "transmit register empty" event one bit early) */
+  lagTime: number
+  /** TX to the bus: isolator channel + transceiver driver propagation, min and max */
+  dataPath: { min: number; max: number }
+  /** DE to the transceiver: isolator channel, min and max */
+  enablePath: { min: number; max: number }
+  /** transceiver driver enable time (tZH / tZL, max) and disable time (tHZ / tLZ, min) */
+  driverEnable: number
+  driverDisable: number
+}
+
+export interface Rs485TurnaroundResult {
+  /** the driver is on at the bus before the start bit's edge reaches it, with this much to spare (negative: the start bit is cut) */
+  leadSlack: number
+  /** the driver stays on past the end of the stop bit at the bus, with this much to spare (negative: the stop bit is cut) */
+  lagSlack: number
+  pass: boolean
+}
