@@ -57,6 +57,8 @@ export interface ProjectDetailDto extends ProjectDto {
 export interface LinkDto {
   id: number
   projectId: number
+  /** the project's name (for the page's path), when the route reads it */
+  projectName?: string
   teamId: number
   name: string
   version: number

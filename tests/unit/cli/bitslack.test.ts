@@ -120,3 +120,21 @@ describe('bitslack diff', () => {
     expect(text.out).toContain('verdict: fail -> pass')
   }, 30_000)
 })
+
+describe('the publishable bundle (npm run cli:build)', () => {
+  it('is one file that answers like the checkout\'s bin', async () => {
+    await run('bash', ['cli/build.sh'])
+    const f = file('telemetry.json', TELEMETRY_LINK)
+    const fromSource = await bitslack('check', f, '--json')
+    let bundled: { code: number; out: string }
+    try {
+      const { stdout } = await run(process.execPath, [path.resolve('cli/dist/bitslack.mjs'), 'check', f, '--json'])
+      bundled = { code: 0, out: stdout }
+    } catch (e) {
+      const x = e as { code: number; stdout: string }
+      bundled = { code: x.code, out: x.stdout }
+    }
+    expect(bundled.code).toBe(fromSource.code)
+    expect(JSON.parse(bundled.out)).toEqual(JSON.parse(fromSource.out))
+  }, 120_000)
+})
