@@ -155,3 +155,26 @@ export function canMaxBusLength(i: Omit<CanTimingInput, 'length'>): number | nul
   }
   return best
 }
+
+/**
+ * Public contract (issue 15): the oscillator tolerance of a setting by the specification's two
+ * conditions and their minimum, as fractions; `bitTq` is the bit time in time quanta.
+ */
+export function canOscillatorTolerance(s: { phaseSeg1: number; phaseSeg2: number; sjw: number; bitTq: number }): { cond1: number; cond2: number; tolerance: number } {
+  for (const k of ['phaseSeg1', 'phaseSeg2', 'sjw', 'bitTq'] as const)
+    if (!(Number.isInteger(s[k]) && s[k] >= 1)) throw new EngineInputError([k], `${k}: must be a whole number of time quanta, at least 1`)
+  if (s.sjw > Math.min(s.phaseSeg1, s.phaseSeg2)) throw new EngineInputError(['sjw'], 'sjw: must not exceed either phase segment')
+  if (1 + s.phaseSeg1 + s.phaseSeg2 >= s.bitTq) throw new EngineInputError(['bitTq'], 'bitTq: the bit must hold Sync_Seg, a Prop_Seg of at least 1 tq and both phase segments')
+  const t = oscillatorTolerance(s.phaseSeg1, s.phaseSeg2, s.sjw, s.bitTq)
+  return { cond1: t.I, cond2: t.II, tolerance: t.tolerance }
+}
+
+/**
+ * Public contract (issue 15): the smallest Prop_Seg, in time quanta, covering twice the one-way
+ * delay output -> bus -> input between the two most distant nodes (seconds in, tq out).
+ */
+export function canPropSegTq(s: { tq: number; nodeOutputDelay: number; busDelay: number; nodeInputDelay: number }): number {
+  for (const k of ['nodeOutputDelay', 'busDelay', 'nodeInputDelay'] as const)
+    if (!(s[k] >= 0)) throw new EngineInputError([k], `${k}: must be zero or more seconds`)
+  return propSegTq(2 * (s.nodeOutputDelay + s.busDelay + s.nodeInputDelay), s.tq)
+}
