@@ -12,7 +12,9 @@ import { performance } from 'node:perf_hooks'
 import { LinkSpec, type PhototransistorStage } from '../shared/schemas/link'
 import { TELEMETRY_LINK } from '../server/db/seeders/demo-links'
 import { analyzeLink } from '../server/timing/analyze'
+import { canBitTimings, canMaxBusLength } from '../server/timing/can'
 import { analyzeChain } from '../server/timing/chain'
+import { i2cBus } from '../server/timing/i2c'
 import { rateErrorBounds } from '../server/timing/clock'
 import { seriesValues } from '../server/timing/eseries'
 import { phototransistorModel } from '../server/timing/phototransistor'
@@ -63,6 +65,18 @@ line('full UART analysis (analyzeLink)', median(() => analyzeLink(link), 200, 50
     const c = analyzeChain(channel)
     return maxBaud(layout, sampler, { pwd: c.pwd, jitterPeak: c.jitterPeak, jitterRms: c.jitterRms }, errors, uart.requiredMarginUi, MAX_BAUD_CAP)
   }, 2000, 200), '<= 2 ms')
+}
+
+// 2b. bus building blocks (issue 15; not yet link types): a CAN bit-timing table search and an isolated I2C bus
+{
+  // TI DCAN TRM worked example's node (driver 60 ns, receiver 40 ns) behind a 25 ns isolator each way, 40 m, 80 MHz, 500 kbit/s
+  const node = { isolatorTx: 25e-9, driver: 60e-9, receiver: 40e-9, isolatorRx: 25e-9 }
+  const can = { clockHz: 80e6, bitRate: 500e3, nodes: [node, node] as [typeof node, typeof node], length: 40 }
+  line('CAN bit-timing table + longest bus (canBitTimings)', median(() => [canBitTimings(can), canMaxBusLength(can)], 2000, 200), '<= 1 ms')
+  // common practice: Fast mode, 3.3 V both sides, 2.2 kOhm and 100 pF per side, a 30/50 ns isolator
+  const side = { vdd: 3.3, rp: 2200, cb: 100e-12 }
+  const i2c = { mode: 'fast' as const, a: side, b: side, isolator: { abFall: 30e-9, abRise: 50e-9, ba: 50e-9 }, fScl: 400e3 }
+  line('isolated I2C bus (i2cBus, both sides)', median(() => i2cBus(i2c), 2000, 200), '<= 1 ms')
 }
 
 // 3. spread study, 100k trials (module of the engine core)
