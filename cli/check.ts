@@ -72,7 +72,7 @@ export function parseForCheck(raw: unknown, source: string): Link {
 /** The few numbers a CI step reports, in the units of the trade. */
 export interface CheckSummary {
   name: string
-  protocol: 'uart' | 'spi'
+  protocol: Link['protocol']
   verdict: Verdict
   engineVersion: string
   uart?: {
@@ -95,13 +95,21 @@ export interface CheckSummary {
     limitingCheck: string | null
     noSlackReason: string | null
   }
+  /** I2C, CAN and RS-485: the limiting check of the bus and the highest rate it allows */
+  bus?: {
+    what: string
+    worstCheck: string | null
+    worstSlack: number
+    failing: string[]
+    maxRate: string | null
+  }
   warnings: string[]
 }
 
 export function summariseForCheck(a: LinkAnalysis): CheckSummary {
   const out: CheckSummary = {
     name: a.input.name,
-    protocol: a.input.protocol as 'uart' | 'spi',
+    protocol: a.input.protocol,
     verdict: a.verdict,
     engineVersion: a.engineVersion,
     warnings: a.warnings.map((w) => `${warningWords(w.code)}: ${w.message}`),
@@ -126,6 +134,19 @@ export function summariseForCheck(a: LinkAnalysis): CheckSummary {
     const s = a.spi
     out.spi = { sclkHz: s.sclkHz, worstSlack: s.worstSlack, worstCheck: s.worstCheck, maxSclkHz: s.maxSclkHz, limitingCheck: s.limitingCheck, noSlackReason: s.noSlackReason }
   }
+  const failing = (cs: { id: string; pass: boolean }[]) => cs.filter((c) => !c.pass).map((c) => c.id)
+  if (a.i2c) {
+    const i = a.i2c
+    out.bus = { what: `I2C ${i.mode} at ${formatEng(i.sclHz, 'Hz')}`, worstCheck: i.limiting, worstSlack: i.worstSlack, failing: [...failing(i.checks), ...failing(i.levelChecks)], maxRate: i.maxSclHz === null ? null : `SCL ${formatEng(i.maxSclHz, 'Hz')} (set by ${i.maxSclLimitedBy})` }
+  }
+  if (a.can) {
+    const c = a.can
+    out.bus = { what: `CAN at ${formatEng(c.bitRate, 'bit/s')}${c.fd ? `, data phase ${formatEng(c.fd.dataBitRate, 'bit/s')}` : ''}`, worstCheck: c.limiting, worstSlack: c.worstSlack, failing: failing(c.checks), maxRate: c.maxBusLength === null ? null : `bus up to ${c.maxBusLength.toFixed(0)} m at this bit rate` }
+  }
+  if (a.rs485 && a.rs485.checks.length) {
+    const r = a.rs485
+    out.bus = { what: `RS-485 ${r.duplex} duplex turnaround`, worstCheck: r.limiting, worstSlack: r.worstSlack, failing: failing(r.checks), maxRate: r.minLeadTime === null ? null : `DE lead at least ${formatEng(r.minLeadTime, 's')}, lag at least ${formatEng(r.minLagTime ?? 0, 's')}` }
+  }
   return out
 }
 
@@ -147,6 +168,13 @@ export function checkText(s: CheckSummary): string {
     if (p.worstSlack === null) lines.push(`worst check: no slack (${p.noSlackReason ?? 'the link cannot carry data'})`)
     else lines.push(`worst check: ${p.worstCheck}, slack ${formatEng(p.worstSlack, 's')} beyond its requirement`)
     lines.push(`maximum SCLK: ${maxRateText(p.maxSclkHz, false, 'Hz')}${p.limitingCheck ? ` (set by ${p.limitingCheck})` : ''}`)
+  }
+  if (s.bus) {
+    const b = s.bus
+    if (!s.uart) lines.push(`${s.name}: ${b.what}`, `verdict: ${s.verdict.toUpperCase()}`)
+    else lines.push(`${b.what}`)
+    lines.push(`limiting check: ${b.worstCheck ?? 'none'}, slack ${formatEng(b.worstSlack, 's')}${b.failing.length ? `; failing: ${b.failing.join(', ')}` : ''}`)
+    if (b.maxRate) lines.push(`most the link allows: ${b.maxRate}`)
   }
   for (const w of s.warnings) lines.push(`warning: ${w}`)
   lines.push(`engine ${s.engineVersion}; timing only: insulation, creepage, clearance and safety approvals follow the applicable standards, and every link still needs bench verification`)

@@ -13,9 +13,12 @@ export function summarize(analysis: LinkAnalysis): LinkSummaryFields {
   return {
     verdict: analysis.verdict,
     worstMarginUi: analysis.uart?.worstMarginUi ?? null,
-    worstSlack: analysis.spi?.worstSlack ?? null,
+    worstSlack: analysis.spi?.worstSlack ?? analysis.i2c?.worstSlack ?? analysis.can?.worstSlack ?? (analysis.rs485?.checks.length ? analysis.rs485.worstSlack : null),
     maxBaud: analysis.uart?.maxBaud ?? null,
     maxSclkHz: analysis.spi?.maxSclkHz ?? null,
+    maxSclHz: analysis.i2c?.maxSclHz ?? null,
+    maxBusLength: analysis.can?.maxBusLength ?? null,
+    limitingCheck: analysis.i2c?.limiting ?? analysis.can?.limiting ?? analysis.rs485?.limiting ?? null,
     engineVersion: analysis.engineVersion,
   }
 }

@@ -14,6 +14,11 @@ import {
   pullupColumns,
   spiCandidateColumns,
   spiCheckColumns,
+  busCheckColumns,
+  i2cLevelColumns,
+  i2cPullupColumns,
+  canTimingColumns,
+  canLengthColumns,
   stageColumns,
   standardRateColumns,
   type ReportColumn,
@@ -27,6 +32,9 @@ export function availableTables(a: LinkAnalysis, hasPullup: boolean): ReportTabl
   const t: ReportTable[] = []
   if (a.uart) t.push('bits', 'standard-rates', 'rate-sweep')
   if (a.spi) t.push('checks', 'candidates')
+  if (a.i2c || a.can || a.rs485?.checks.length) t.push('bus-checks')
+  if (a.i2c) t.push('i2c-levels', 'i2c-pullups')
+  if (a.can) t.push('can-bit-timing', 'can-bus-length')
   t.push('stages')
   if (hasPullup) t.push('pullup')
   return t
@@ -69,6 +77,23 @@ export function reportTableCsv(a: LinkAnalysis, table: ReportTable, pullup: Pull
     case 'candidates':
       if (!spi) return null
       return tableCsv(spiCandidateColumns(), [{ lead: [], rows: spi.candidates }])
+    case 'bus-checks': {
+      const checks = a.i2c?.checks ?? a.can?.checks ?? a.rs485?.checks
+      if (!checks?.length) return null
+      return tableCsv(busCheckColumns(), [{ lead: [], rows: checks }])
+    }
+    case 'i2c-levels':
+      if (!a.i2c) return null
+      return tableCsv(i2cLevelColumns(), [{ lead: [], rows: a.i2c.levelChecks }])
+    case 'i2c-pullups':
+      if (!a.i2c) return null
+      return tableCsv(i2cPullupColumns(), a.i2c.pullupSweep.map((sw) => ({ lead: [sw.side, sw.series], rows: sw.rows })), ['side', 'series'])
+    case 'can-bit-timing':
+      if (!a.can) return null
+      return tableCsv(canTimingColumns(), [{ lead: [], rows: a.can.bitTimings }])
+    case 'can-bus-length':
+      if (!a.can) return null
+      return tableCsv(canLengthColumns(), [{ lead: [], rows: a.can.lengthByRate }])
     case 'stages':
       return tableCsv(
         stageColumns(),

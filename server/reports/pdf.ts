@@ -23,6 +23,7 @@ import {
   reviewSection,
   settingsSection,
   spiSection,
+  busSection,
   stagesSection,
   summarySection,
   titleSection,
@@ -32,7 +33,7 @@ export { pdfText, REPORT_FONT_FILES, commentTargetText, type ReportFonts }
 export type PaperSize = 'A4' | 'LETTER'
 
 /** The sections in the order the report reads. */
-const SECTIONS = [titleSection, summarySection, stagesSection, settingsSection, bitsSection, spiSection, ratesSection, pullupSection, capturesSection, notesSection, reviewSection]
+const SECTIONS = [titleSection, summarySection, stagesSection, settingsSection, bitsSection, spiSection, busSection, ratesSection, pullupSection, capturesSection, notesSection, reviewSection]
 
 /** Build the PDF of one revision (after r1, with what changed since the revision before it). */
 export async function buildReportPdf(report: ReportDetailDto, fonts: ReportFonts, paper: PaperSize = 'A4', changes: RevisionComparisonDto | null = null): Promise<Buffer> {

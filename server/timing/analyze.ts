@@ -9,11 +9,14 @@ import { analyzeChain, type ChainAnalysis } from './chain'
 import { EngineInputError } from './errors'
 import { phototransistorAssumptions, type CouplerModelInfo } from './phototransistor'
 import { analyzeSpi, type SpiResult } from './spi'
+import { analyzeI2cLink } from './i2cLink'
+import { analyzeCanLink } from './canLink'
+import { analyzeRs485Link } from './rs485'
 import type { ChainResult, Corners, Warning } from './types'
 import { uartTimeline } from './timeline'
 import { analyzeUartChannel, type ReceiverEnd, type TransmitterEnd, type UartChannelResult } from './uart'
 import { ENGINE_VERSION } from './version'
-import type { Verdict, ChannelResult, UartResult, LinkAnalysis } from '../../shared/types/analysis'
+import type { Verdict, ChannelResult, UartResult, LinkAnalysis, I2cLinkResult, CanLinkResult, Rs485LinkResult } from '../../shared/types/analysis'
 export type { Verdict, ChannelResult, UartResult, LinkAnalysis }
 
 
@@ -73,8 +76,11 @@ export function analyzeParsedLink(link: Link): LinkAnalysis {
 
   let uart: UartResult | null = null
   let spi: SpiResult | null = null
+  let i2c: I2cLinkResult | null = null
+  let can: CanLinkResult | null = null
+  let rs485: Rs485LinkResult | null = null
   let verdict: Verdict = 'pass'
-  if (link.protocol === 'uart' && link.uart) {
+  if ((link.protocol === 'uart' || link.protocol === 'rs485') && link.uart) {
     uart = analyzeUart(link, chains, channels, notFunctional, assumptions)
     for (const r of uart.byChannel) warnings.push(...r.warnings)
     verdict = worseOf(uart.byChannel.map((r) => r.verdict))
@@ -85,9 +91,27 @@ export function analyzeParsedLink(link: Link): LinkAnalysis {
     assumptions.push(...spi.assumptions)
     verdict = spi.pass ? 'pass' : spi.worstSlack !== null && spi.worstSlack >= 0 ? 'marginal' : 'fail'
   }
+  if (link.protocol === 'rs485' && link.rs485 && link.uart) {
+    const r = analyzeRs485Link(link, chains)
+    rs485 = r.result
+    assumptions.push(...r.assumptions)
+    if (!r.result.pass) verdict = 'fail'
+  }
+  if (link.protocol === 'i2c' && link.i2c) {
+    const r = analyzeI2cLink(link, chains)
+    i2c = r.result
+    assumptions.push(...r.assumptions)
+    verdict = r.result.pass ? (r.result.worstSlack < (link.i2c.requiredSlack ?? 0) ? 'marginal' : 'pass') : 'fail'
+  }
+  if (link.protocol === 'can' && link.can) {
+    const r = analyzeCanLink(link, chains)
+    can = r.result
+    assumptions.push(...r.assumptions)
+    verdict = r.result.pass ? 'pass' : 'fail'
+  }
   if (functional.some((f) => !f)) verdict = 'fail'
 
-  const result: LinkAnalysis = { engineVersion: ENGINE_VERSION, verdict, channels, uart, spi, assumptions, warnings: dedupeWarnings(warnings), input: link }
+  const result: LinkAnalysis = { engineVersion: ENGINE_VERSION, verdict, channels, uart, spi, i2c, can, rs485, assumptions, warnings: dedupeWarnings(warnings), input: link }
   assertFinite(result)
   return result
 }

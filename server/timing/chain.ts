@@ -293,7 +293,7 @@ function propagateStage(channel: ChannelSpec, i: number, up: EdgeState, down: Ed
   const stage = channel.stages[i]!
   let reduced
   try {
-    reduced = reduceStage(stage, channel.receiver)
+    reduced = reduceStage(stage, channel.receiver, channel.role)
   } catch (err) {
     if (err instanceof EngineInputError) throw new EngineInputError([...path, 'stages', i, ...err.path], err.message)
     throw err

@@ -7,9 +7,12 @@
  * - rc: a resistor charging a capacitance in the passive direction, an exponential edge
  *   with tr = RC ln 9 and its 50 % point 0.693 RC (RC ln 2) after the switch releases;
  *   the active direction passes the driving edge on with no added delay;
- * - phototransistor: the phototransistor module's model (operating point, fits).
+ * - phototransistor: the phototransistor module's model (operating point, fits);
+ * - transceiver: the driver's delay in a txd channel, the receiver's in an rxd channel, none in
+ *   a de channel (its enable and disable times count there), both in turn elsewhere; the skew
+ *   bounds each part's |tPLH - tPHL|.
  */
-import type { ChannelSpec, DigitalStage, RcStage, StageSpec, WireStage } from '../../shared/schemas/link'
+import type { ChannelRole, ChannelSpec, DigitalStage, RcStage, StageSpec, TransceiverStage, WireStage } from '../../shared/schemas/link'
 import { LN2, LN9 } from './edges'
 import { phototransistorModel, type CouplerModelInfo, type PhototransistorOperating } from './phototransistor'
 import type { Corners, StageEdgeModel, Warning } from './types'
@@ -94,8 +97,39 @@ export function rcStageModel(stage: RcStage, receiverVdd: number): StageEdgeMode
   }
 }
 
+/** The delay a transceiver puts in a channel of `role`: driver, receiver, none or both, with the skew that bounds its PWD. */
+export function transceiverDelay(stage: TransceiverStage, role: ChannelRole | undefined): { delay: Corners; pwdMax: number } {
+  const d = stage.driverDelay
+  const r = stage.receiverDelay
+  const skew = stage.skew ?? 0
+  if (role === 'txd') return { delay: { ...d }, pwdMax: skew }
+  if (role === 'rxd') return { delay: { ...r }, pwdMax: skew }
+  if (role === 'de') return { delay: fixed(0), pwdMax: 0 }
+  const max = Math.min(d.max + r.max, stage.loopDelayMax ?? Infinity)
+  return { delay: { min: d.min + r.min, typ: Math.min(d.typ + r.typ, max), max }, pwdMax: 2 * skew }
+}
+
+/** A transceiver: symmetric delay corners for its part of the channel, PWD bounded by its skew, edges re-driven (ideal). */
+export function transceiverStageModel(stage: TransceiverStage, role: ChannelRole | undefined, receiverVdd: number): StageEdgeModel {
+  const { delay, pwdMax } = transceiverDelay(stage, role)
+  return {
+    inverting: false,
+    tplh: { ...delay },
+    tphl: { ...delay },
+    pwdMax,
+    tr: { ...ideal },
+    tf: { ...ideal },
+    riseShape: 'ramp',
+    fallShape: 'ramp',
+    ...swing(stage, receiverVdd),
+    partSkew: stage.partSkew ?? 0,
+    jitterRms: stage.jitterRms ?? 0,
+    jitterPeak: stage.jitterPeak ?? 0,
+  }
+}
+
 /** Reduce one stage of a channel to its edge model, with the stage's own warnings. */
-export function reduceStage(stage: StageSpec, receiver: Pick<ChannelSpec['receiver'], 'vdd'>): StageReduction {
+export function reduceStage(stage: StageSpec, receiver: Pick<ChannelSpec['receiver'], 'vdd'>, role?: ChannelRole): StageReduction {
   switch (stage.kind) {
     case 'digital':
       return { model: digitalStageModel(stage, receiver.vdd), warnings: [] }
@@ -103,6 +137,8 @@ export function reduceStage(stage: StageSpec, receiver: Pick<ChannelSpec['receiv
       return { model: wireStageModel(stage, receiver.vdd), warnings: [] }
     case 'rc':
       return { model: rcStageModel(stage, receiver.vdd), warnings: [] }
+    case 'transceiver':
+      return { model: transceiverStageModel(stage, role, receiver.vdd), warnings: [] }
     case 'phototransistor': {
       const r = phototransistorModel(stage)
       return { model: r.model, warnings: r.warnings, operating: r.operating, coupler: r.coupler }

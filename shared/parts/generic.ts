@@ -243,6 +243,46 @@ export const CNX5: StageInput = {
   maxDataRate: 5e6,
 }
 
+/**
+ * Generic isolated-bus RS-485 transceiver as a transceiver stage: driver and receiver delays, skew,
+ * enable and disable times of a slew-limited class; from memory of the class.
+ */
+export const RTX10: StageInput = {
+  kind: 'transceiver',
+  name: 'RTX-10 generic RS-485 transceiver',
+  driverDelay: { min: 20e-9, typ: 40e-9, max: 70e-9 },
+  receiverDelay: { min: 30e-9, typ: 60e-9, max: 100e-9 },
+  skew: 10e-9,
+  enableTime: 2.5e-6,
+  disableTime: 100e-9,
+}
+
+/** Generic CAN transceiver as a transceiver stage: loop delay up to 255 ns (references.md 4.1), split driver / receiver from memory of the class. */
+export const CTX5: StageInput = {
+  kind: 'transceiver',
+  name: 'CTX-5 generic CAN transceiver',
+  driverDelay: { min: 40e-9, typ: 70e-9, max: 110e-9 },
+  receiverDelay: { min: 50e-9, typ: 90e-9, max: 145e-9 },
+  skew: 20e-9,
+  loopDelayMax: 255e-9,
+}
+
+/**
+ * Generic bidirectional I2C isolator, one channel's delays (side to side, the same both ways); it
+ * drives its side-a low with a static offset of about 0.6 V to tell its own low from the bus's. From
+ * memory of the class.
+ */
+export const BDI2: StageInput = {
+  kind: 'digital',
+  name: 'BDI-2 generic bidirectional I2C isolator channel',
+  inverting: false,
+  tplh: { min: 40e-9, typ: 70e-9, max: 110e-9 },
+  tphl: { min: 40e-9, typ: 60e-9, max: 95e-9 },
+  pwdMax: 25e-9,
+  edge: 'ramp',
+  maxDataRate: 2e6,
+}
+
 /** Generic Schmitt-trigger buffer, 5 V TTL-input (HCT) class: thresholds of references.md 8.5 [S], CD74HCT14 at 4.5 V. */
 export const SBF5: StageInput = {
   kind: 'digital',
@@ -349,6 +389,24 @@ export const BUILT_IN_PARTS: GenericPart[] = [
     category: 'digital isolator',
     description: `Fast digital isolator grade, 150 Mbit/s; 13 ns max delay, 1 ns PWD. Typical values from memory of the class. ${GENERIC_NOTE}`,
     stage: DIS150,
+  },
+  {
+    name: RTX10.name,
+    category: 'transceiver',
+    description: `RS-485 transceiver class as a bus transceiver stage: driver and receiver delays, skew, and the slow enable of a slew-limited driver (2.5 µs). Typical values from memory of the class. ${GENERIC_NOTE}`,
+    stage: RTX10,
+  },
+  {
+    name: CTX5.name,
+    category: 'transceiver',
+    description: `CAN transceiver class as a bus transceiver stage: driver and receiver delays within a 255 ns loop delay. Typical values from memory of the class. ${GENERIC_NOTE}`,
+    stage: CTX5,
+  },
+  {
+    name: BDI2.name,
+    category: 'digital isolator',
+    description: `Bidirectional I2C isolator class, one channel (the same delays both ways), up to Fast-mode Plus. Its side-a low sits about 0.6 V above ground. Typical values from memory of the class. ${GENERIC_NOTE}`,
+    stage: BDI2,
   },
   {
     name: RSX10.name,

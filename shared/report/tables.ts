@@ -5,7 +5,7 @@
  * read, with units); `state` colours a cell by the margin it shows; `only` keeps a column to
  * some of the renderers (the CSV carries the instants a screen has no room for).
  */
-import type { ChannelResult, PullupSweepRow, SpiCandidate, SpiCheck, StandardRateRow, UartBitResult } from '../types/analysis'
+import type { BusCheck, CanBitTimingRow, CanLinkResult, ChannelResult, I2cLinkResult, PullupSweepRow, SpiCandidate, SpiCheck, StandardRateRow, UartBitResult } from '../types/analysis'
 import { formatEng, formatPercent, formatUi } from '../utils/units'
 import {
   MARGIN_LABEL,
@@ -219,5 +219,78 @@ export function pullupColumns(requiredUi: number, opts: { rbe?: boolean; role?: 
     { key: 'tf', label: 'tf', csvLabel: 'tf (s)', numeric: true, value: (r) => r.tf, text: (r) => s(r.tf), detail: true, only: ['screen', 'csv'] },
     { key: 'reasons', label: 'Why not', csvLabel: 'reasons', value: (r) => r.reasons.join('; '), text: (r) => r.reasons.join('; ') || '–', detail: true, only: ['screen', 'csv'] },
     { key: 'notes', label: 'Notes', csvLabel: 'notes', value: (r) => r.notes.join('; '), text: (r) => r.notes.join('; ') || '–', detail: true, only: ['screen', 'csv'] },
+  ]
+}
+
+// ---------------------------------------------------------------- I2C, CAN, RS-485 (timing-model.md section 4)
+
+/** The text of a bus check's value, limit or slack in its unit. */
+const busValue = (c: BusCheck, v: number) => (c.unit === 'fraction' ? formatPercent(v, 3) : s(v))
+
+/** Timing checks of a bus link (I2C, CAN, RS-485 turnaround), each against its limit. */
+export function busCheckColumns(): ReportColumn<BusCheck>[] {
+  const state = (c: BusCheck): MarginState => (c.pass ? 'healthy' : 'broken')
+  return [
+    { key: 'id', label: 'Check', csvLabel: 'check', value: (c) => c.id, width: 70 },
+    { key: 'value', label: 'Value', csvLabel: 'value (s, or fraction)', numeric: true, value: (c) => c.value, text: (c) => busValue(c, c.value), width: 56 },
+    { key: 'limit', label: 'Limit', csvLabel: 'limit (s, or fraction)', numeric: true, value: (c) => c.limit, text: (c) => `${c.kind === 'min' ? '≥ ' : '≤ '}${busValue(c, c.limit)}`, width: 60 },
+    { key: 'slack', label: 'Slack', csvLabel: 'slack (s, or fraction)', numeric: true, value: (c) => c.slack, text: (c) => busValue(c, c.slack), state, width: 56 },
+    { key: 'pass', label: 'Result', csvLabel: 'pass', value: (c) => c.pass, text: (c) => (c.pass ? 'pass' : 'fail'), state, width: 36 },
+    { key: 'label', label: 'What is compared', csvLabel: 'description', value: (c) => c.label, width: 220 },
+  ]
+}
+
+type I2cLevelCheck = I2cLinkResult['levelChecks'][number]
+
+/** The I2C level checks (pull-up against Rp(min), bus capacitance, the isolator's low offset). */
+export function i2cLevelColumns(): ReportColumn<I2cLevelCheck>[] {
+  const state = (c: I2cLevelCheck): MarginState => (c.pass ? 'healthy' : 'broken')
+  return [
+    { key: 'id', label: 'Check', csvLabel: 'check', value: (c) => c.id, width: 80 },
+    { key: 'side', label: 'Side', csvLabel: 'side', value: (c) => c.side, width: 50 },
+    { key: 'value', label: 'Value', csvLabel: 'value (SI)', numeric: true, value: (c) => c.value, text: (c) => formatEng(c.value, c.unit), width: 56 },
+    { key: 'limit', label: 'Limit', csvLabel: 'limit (SI)', numeric: true, value: (c) => c.limit, text: (c) => formatEng(c.limit, c.unit), width: 56 },
+    { key: 'pass', label: 'Result', csvLabel: 'pass', value: (c) => c.pass, text: (c) => (c.pass ? 'pass' : 'fail'), state, width: 36 },
+    { key: 'label', label: 'What is compared', csvLabel: 'description', value: (c) => c.label, width: 200 },
+  ]
+}
+
+type I2cPullupRow = I2cLinkResult['pullupSweep'][number]['rows'][number]
+
+/** One side's pull-up sweep: each E-series value, its rise and the highest SCL it allows. */
+export function i2cPullupColumns(): ReportColumn<I2cPullupRow>[] {
+  const ok = (r: I2cPullupRow) => r.rpOk && r.riseOk
+  return [
+    { key: 'rp', label: 'Rp', csvLabel: 'Rp (ohm)', numeric: true, value: (r) => r.rp, text: (r) => `${formatEng(r.rp, 'Ω')}${r.current ? ' (now)' : ''}`, width: 60 },
+    { key: 'rise', label: 'Rise 30-70 %', csvLabel: 'rise (s)', numeric: true, value: (r) => r.rise, text: (r) => s(r.rise), state: (r) => (r.riseOk ? 'healthy' : 'broken'), width: 60 },
+    { key: 'rpOk', label: 'Above Rp(min)', csvLabel: 'above Rp(min)', value: (r) => r.rpOk, text: (r) => (r.rpOk ? 'yes' : 'no: drivers cannot sink it'), state: (r) => (r.rpOk ? 'healthy' : 'broken'), width: 70 },
+    { key: 'maxScl', label: 'Highest SCL', csvLabel: 'highest SCL (Hz)', numeric: true, value: (r) => r.maxSclHz, text: (r) => (r.maxSclHz === null ? '–' : formatEng(r.maxSclHz, 'Hz')), state: (r) => (ok(r) ? 'healthy' : 'broken'), width: 60 },
+  ]
+}
+
+/** The CAN bit-timing table: every setting of the clock for the bit rate. */
+export function canTimingColumns(): ReportColumn<CanBitTimingRow>[] {
+  return [
+    { key: 'brp', label: 'BRP', csvLabel: 'brp', numeric: true, value: (r) => r.brp, width: 30 },
+    { key: 'tq', label: 'tq', csvLabel: 'tq (s)', numeric: true, value: (r) => r.tq, text: (r) => s(r.tq), width: 44 },
+    { key: 'tqPerBit', label: 'tq/bit', csvLabel: 'tq per bit', numeric: true, value: (r) => r.tqPerBit, width: 34 },
+    { key: 'propSeg', label: 'Prop', csvLabel: 'Prop_Seg (tq)', numeric: true, value: (r) => r.propSeg, width: 30 },
+    { key: 'phaseSeg1', label: 'Phase 1', csvLabel: 'Phase_Seg1 (tq)', numeric: true, value: (r) => r.phaseSeg1, width: 36 },
+    { key: 'phaseSeg2', label: 'Phase 2', csvLabel: 'Phase_Seg2 (tq)', numeric: true, value: (r) => r.phaseSeg2, width: 36 },
+    { key: 'sjw', label: 'SJW', csvLabel: 'SJW (tq)', numeric: true, value: (r) => r.sjw, width: 28 },
+    { key: 'samplePoint', label: 'Sample point', csvLabel: 'sample point (fraction)', numeric: true, value: (r) => r.samplePoint, text: (r) => formatPercent(r.samplePoint), width: 46 },
+    { key: 'tolerance', label: 'Clock tolerance', csvLabel: 'oscillator tolerance (fraction)', numeric: true, value: (r) => r.tolerance, text: (r) => formatPercent(r.tolerance, 3), width: 50 },
+    { key: 'loop', label: 'Loop delay fits', csvLabel: 'loop delay fits', value: (r) => r.loopDelayFits, text: (r) => (r.loopDelayFits ? 'yes' : 'no'), state: (r) => (r.loopDelayFits ? 'healthy' : 'broken'), width: 44 },
+    { key: 'maxLength', label: 'Longest bus', csvLabel: 'longest bus (m)', numeric: true, value: (r) => r.maxLength, text: (r) => (r.maxLength === null ? 'none' : formatEng(r.maxLength, 'm')), width: 50 },
+  ]
+}
+
+type CanLengthRow = CanLinkResult['lengthByRate'][number]
+
+/** The longest bus at each common bit rate. */
+export function canLengthColumns(): ReportColumn<CanLengthRow>[] {
+  return [
+    { key: 'bitRate', label: 'Bit rate', csvLabel: 'bit rate (bit/s)', numeric: true, value: (r) => r.bitRate, text: (r) => formatEng(r.bitRate, 'bit/s'), width: 60 },
+    { key: 'maxBusLength', label: 'Longest bus', csvLabel: 'longest bus (m)', numeric: true, value: (r) => r.maxBusLength, text: (r) => (r.maxBusLength === null ? 'none (no setting of this clock)' : formatEng(r.maxBusLength, 'm')), width: 80 },
   ]
 }

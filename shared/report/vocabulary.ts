@@ -101,3 +101,6 @@ export function maxRateText(max: number | null, capped: boolean, unit: 'Bd' | 'H
   if (max === null) return 'none'
   return capped ? `at least ${formatEng(max, unit, { digits })} (search limit)` : formatEng(max, unit, { digits })
 }
+
+/** How a protocol is written for people (the trade's spellings). */
+export const PROTOCOL_LABEL: Record<'uart' | 'spi' | 'i2c' | 'can' | 'rs485', string> = { uart: 'UART', spi: 'SPI', i2c: 'I2C', can: 'CAN', rs485: 'RS-485' }

@@ -10,7 +10,12 @@ import { z } from 'zod'
 import { cleanText } from './text'
 import { ctrTypOf, ledCurrentOf, POINT_DEFAULT_LED_CURRENT, POINT_DEFAULT_LOAD_CAP, rbeDivertedCurrent, VBE_HIGH } from '../utils/coupler'
 
-export const LINK_SCHEMA_VERSION = 1
+/**
+ * Version of the link document. 2 added the I2C, CAN and RS-485 link types (protocols, channel
+ * roles, the transceiver stage, their settings); a version 1 document is a version 2 document
+ * without them and is read as it is (stored links were migrated to 2).
+ */
+export const LINK_SCHEMA_VERSION = 2
 
 // ---------------------------------------------------------------- small pieces
 
@@ -289,7 +294,36 @@ export const RcStage = z.object({
 })
 export type RcStage = z.infer<typeof RcStage>
 
-export const StageSpec = z.discriminatedUnion('kind', [DigitalStage, PhototransistorStage, WireStage, RcStage])
+/**
+ * A bus transceiver (CAN, RS-485 / RS-422): its driver (TXD to the bus) and receiver (the bus to
+ * RXD) propagation delays and skew. In a `txd` channel it contributes its driver delay, in an
+ * `rxd` channel its receiver delay, in a `de` channel nothing (its enable and disable times are
+ * used instead), and in any other channel (a UART across an RS-485 bus) driver and receiver in turn.
+ */
+export const TransceiverStage = z
+  .object({
+    kind: z.literal('transceiver'),
+    ...stageCommon,
+    /** driver propagation delay, TXD (or DI) to the bus, seconds */
+    driverDelay: DelaySpec,
+    /** receiver propagation delay, the bus to RXD (or RO), seconds */
+    receiverDelay: DelaySpec,
+    /** |tPLH - tPHL| of driver and receiver each (datasheet "skew" or pulse skew), seconds */
+    skew: Seconds.default(0),
+    /** loop delay TXD -> bus -> RXD the datasheet guarantees (max), seconds; bounds driver + receiver when given */
+    loopDelayMax: Seconds.optional(),
+    /** driver enable time (DE asserted to the bus driven, tZH / tZL max), seconds */
+    enableTime: Seconds.optional(),
+    /** driver disable time (DE released to the bus released, tHZ / tLZ min), seconds */
+    disableTime: Seconds.optional(),
+  })
+  .refine((t) => t.loopDelayMax === undefined || t.loopDelayMax >= t.driverDelay.min + t.receiverDelay.min, {
+    message: 'loopDelayMax is below the sum of the minimum driver and receiver delays',
+    path: ['loopDelayMax'],
+  })
+export type TransceiverStage = z.infer<typeof TransceiverStage>
+
+export const StageSpec = z.discriminatedUnion('kind', [DigitalStage, PhototransistorStage, WireStage, RcStage, TransceiverStage])
 export type StageSpec = z.infer<typeof StageSpec>
 export type StageKind = StageSpec['kind']
 
@@ -326,7 +360,12 @@ export const ReceiverSpec = z
   })
 export type ReceiverSpec = z.infer<typeof ReceiverSpec>
 
-export const ChannelRole = z.enum(['uart', 'sclk', 'mosi', 'miso', 'cs'])
+/**
+ * What a channel carries: a UART direction; SPI's clock, data and chip select; I2C's clock and
+ * data through a bidirectional isolator (scl: controller to target, sda: the target's data back);
+ * a CAN node's transmit and receive paths (txd, rxd); an RS-485 driver enable (de).
+ */
+export const ChannelRole = z.enum(['uart', 'sclk', 'mosi', 'miso', 'cs', 'scl', 'sda', 'txd', 'rxd', 'de'])
 export type ChannelRole = z.infer<typeof ChannelRole>
 
 export const ChannelSpec = z.object({
@@ -497,22 +536,151 @@ export type SpiSettings = z.infer<typeof SpiSettings>
 
 // ---------------------------------------------------------------- link
 
-/**
- * Protocols the engine analyses now. The schema leaves room for more (I2C, CAN:
- * timing-model.md section 4) as further `protocol` values with their own settings key.
- */
-export const Protocol = z.enum(['uart', 'spi'])
+// ---------------------------------------------------------------- I2C (timing-model.md section 4)
+
+/** One side of an isolated I2C bus: its supply, pull-up, bus capacitance and its devices' levels. */
+export const I2cSideSpec = z.object({
+  /** supply of this side's pull-ups, volts */
+  vdd: num(0.8, 60, 'supply vdd (V)'),
+  /** pull-up resistor, ohms */
+  rp: Ohms,
+  /** bus capacitance of the line on this side, farads */
+  cb: num(1e-13, 1e-8, 'bus capacitance (F)'),
+  /** highest low level a driver on this side leaves at the mode's sink current, volts (default 0.4 V, 0.2 VDD at 2 V or less) */
+  vol: PositiveVolts.optional(),
+  /** lowest VIL of the devices on this side, volts (default 0.3 VDD) */
+  vil: PositiveVolts.optional(),
+})
+export type I2cSideSpec = z.infer<typeof I2cSideSpec>
+
+export const I2cSettings = z
+  .object({
+    mode: z.enum(['standard', 'fast', 'fast-plus'], { error: "mode must be 'standard', 'fast' or 'fast-plus'" }),
+    /** the controller's SCL frequency, hertz */
+    sclHz: num(100, 5e6, 'SCL frequency (Hz)'),
+    /** the controller's SCL low time as a fraction of its period (default the mode's tLOW / (tLOW + tHIGH)) */
+    dutyLow: num(0.05, 0.95, 'SCL low fraction').optional(),
+    /** slack every timing check must keep, seconds */
+    requiredSlack: Seconds.default(0),
+    /** side a: the controller's */
+    controller: I2cSideSpec.extend({
+      /** the controller's data hold after its own SCL falling edge, seconds (UM10204: 0 s minimum) */
+      tHdDat: Seconds.default(0),
+    }),
+    /** side b: the target's */
+    target: I2cSideSpec.extend({
+      /** the target's data valid time after SCL low, seconds (default the mode's tVD;DAT max) */
+      tVdDat: Seconds.optional(),
+    }),
+    /** the bidirectional isolator between the sides */
+    isolator: z
+      .object({
+        /** static low-level offset the isolator puts on one side (it tells its own low from the bus's), volts */
+        lowOffset: PositiveVolts.optional(),
+        offsetSide: z.enum(['controller', 'target']).default('controller'),
+        /** the isolator's input threshold as a fraction of its side's VDD (default 0.5) */
+        threshold: num(0.1, 0.9, 'isolator threshold (fraction of VDD)').optional(),
+      })
+      .default({ offsetSide: 'controller' }),
+  })
+  .superRefine((s, ctx) => {
+    for (const side of ['controller', 'target'] as const) {
+      const v = s[side]
+      if (v.vol !== undefined && v.vol >= v.vdd) ctx.addIssue({ code: 'custom', path: [side, 'vol'], message: 'vol must be below the side\'s vdd' })
+      if (v.vil !== undefined && v.vil >= v.vdd) ctx.addIssue({ code: 'custom', path: [side, 'vil'], message: 'vil must be below the side\'s vdd' })
+    }
+  })
+export type I2cSettings = z.infer<typeof I2cSettings>
+
+// ---------------------------------------------------------------- CAN (timing-model.md section 4)
+
+/** A bit-timing setting of the controller, in time quanta (ISO 11898-1). */
+export const CanTimingSpec = z.object({
+  brp: z.number().int('brp must be a whole number').min(1, 'brp must be at least 1').max(1024, 'brp must be at most 1024'),
+  propSeg: z.number().int('propSeg must be a whole number').min(1, 'propSeg must be at least 1').max(64, 'propSeg must be at most 64'),
+  phaseSeg1: z.number().int('phaseSeg1 must be a whole number').min(1, 'phaseSeg1 must be at least 1').max(64, 'phaseSeg1 must be at most 64'),
+  phaseSeg2: z.number().int('phaseSeg2 must be a whole number').min(1, 'phaseSeg2 must be at least 1').max(64, 'phaseSeg2 must be at most 64'),
+  sjw: z.number().int('sjw must be a whole number').min(1, 'sjw must be at least 1').max(64, 'sjw must be at most 64'),
+})
+export type CanTimingSpec = z.infer<typeof CanTimingSpec>
+
+/** A sample point: a fraction of the bit, strictly inside it. */
+const SamplePoint = z
+  .number({ error: 'sample point must be a number' })
+  .gt(0.5, 'sample point must lie in the second half of the bit (above 0.5)')
+  .lt(1, 'sample point must lie inside the bit (below 1)')
+
+export const CanSettings = z
+  .object({
+    /** nominal (arbitration) bit rate, bit/s */
+    bitRate: num(1000, 1e6, 'bit rate (bit/s)'),
+    /** the CAN controller's clock, hertz */
+    clockHz: num(1e5, 1e9, 'CAN clock (Hz)'),
+    /** wanted sample point of the nominal bit (CiA 301 recommends 0.875) */
+    samplePoint: SamplePoint.default(0.875),
+    /** the setting the firmware uses (optional: without it the best setting of the table is taken) */
+    timing: CanTimingSpec.optional(),
+    /** bus length between the two most distant nodes, metres */
+    busLength: num(0, 10000, 'bus length (m)'),
+    /** signal delay of the bus cable, seconds per metre */
+    delayPerMetre: num(1e-9, 1e-7, 'delay per metre (s/m)').default(5e-9),
+    /** oscillator tolerance of the nodes' clocks, as a fraction (0.001 = 0.1 %); checked against the setting's */
+    clockTolerance: num(0, 0.02, 'clock tolerance (fraction)').optional(),
+    /** the most distant other node's paths (default: the same as this node's) */
+    farNode: z.object({ outputDelay: Seconds, inputDelay: Seconds }).optional(),
+    /** CAN FD data phase */
+    fd: z
+      .object({
+        dataBitRate: num(1e5, 20e6, 'data bit rate (bit/s)'),
+        dataSamplePoint: SamplePoint.default(0.75),
+        /** transmitter delay compensation on */
+        tdc: z.boolean().default(true),
+      })
+      .optional(),
+  })
+  .superRefine((s, ctx) => {
+    if (s.fd && s.fd.dataBitRate < s.bitRate) ctx.addIssue({ code: 'custom', path: ['fd', 'dataBitRate'], message: 'the data bit rate must be at least the nominal bit rate' })
+    if (s.timing) {
+      const t = s.timing
+      if (t.sjw > Math.min(t.phaseSeg1, t.phaseSeg2)) ctx.addIssue({ code: 'custom', path: ['timing', 'sjw'], message: 'sjw must not exceed either phase segment' })
+      const bit = 1 + t.propSeg + t.phaseSeg1 + t.phaseSeg2
+      const rate = s.clockHz / (t.brp * bit)
+      if (Math.abs(rate - s.bitRate) > 1e-6 * s.bitRate)
+        ctx.addIssue({ code: 'custom', path: ['timing', 'brp'], message: `this timing gives ${rate.toPrecision(6)} bit/s from the ${s.clockHz} Hz clock, not the bit rate ${s.bitRate} bit/s (clock / (brp x (1 + propSeg + phaseSeg1 + phaseSeg2)))` })
+    }
+  })
+export type CanSettings = z.infer<typeof CanSettings>
+
+// ---------------------------------------------------------------- RS-485 (timing-model.md section 4)
+
+export const Rs485Settings = z.object({
+  /** half duplex: one pair, the driver enabled per frame (needs a 'de' channel); full: two pairs (RS-422 style) */
+  duplex: z.enum(['half', 'full']).default('half'),
+  /** firmware: DE asserted this long before the start bit leaves TX, seconds */
+  leadTime: Seconds.default(0),
+  /** firmware: DE released this long after the end of the last stop bit at TX (negative: early), seconds */
+  lagTime: SignedSeconds.default(0),
+})
+export type Rs485Settings = z.infer<typeof Rs485Settings>
+
+// ---------------------------------------------------------------- link
+
+/** Protocols the engine analyses: each with its own settings key (uart, spi, i2c, can; rs485 = uart + rs485). */
+export const Protocol = z.enum(['uart', 'spi', 'i2c', 'can', 'rs485'])
 export type Protocol = z.infer<typeof Protocol>
 
 export const LinkSpec = z
   .object({
-    schemaVersion: z.literal(LINK_SCHEMA_VERSION, { error: `schemaVersion must be ${LINK_SCHEMA_VERSION}` }),
+    schemaVersion: z.union([z.literal(1), z.literal(LINK_SCHEMA_VERSION)], { error: `schemaVersion must be ${LINK_SCHEMA_VERSION} (or 1, read as it is)` }),
     name: cleanText(z.string().trim().min(1, 'name is required').max(200, 'name is at most 200 characters'), 'name'),
     protocol: Protocol,
     description: cleanText(z.string().max(4000), 'description').optional(),
     channels: z.array(ChannelSpec).min(1, 'a link needs at least one channel').max(16, 'at most 16 channels'),
     uart: UartSettings.optional(),
     spi: SpiSettings.optional(),
+    i2c: I2cSettings.optional(),
+    can: CanSettings.optional(),
+    rs485: Rs485Settings.optional(),
   })
   .superRefine((link, ctx) => {
     const ids = new Set<string>()
@@ -521,13 +689,54 @@ export const LinkSpec = z
       ids.add(ch.id)
     })
     const roles = link.channels.map((c) => c.role)
-    if (link.protocol === 'uart') {
-      if (!link.uart) ctx.addIssue({ code: 'custom', path: ['uart'], message: 'a UART link needs uart settings' })
-      const n = roles.filter((r) => r === 'uart').length
-      if (n < 1 || n > 2)
-        ctx.addIssue({ code: 'custom', path: ['channels'], message: 'a UART link has one or two uart channels (one per direction)' })
+    const only = (allowed: readonly string[], what: string) =>
       link.channels.forEach((ch, i) => {
-        if (ch.role !== 'uart') ctx.addIssue({ code: 'custom', path: ['channels', i, 'role'], message: "a UART link's channels have role 'uart'" })
+        if (!allowed.includes(ch.role)) ctx.addIssue({ code: 'custom', path: ['channels', i, 'role'], message: `${what} channels have role ${allowed.map((r) => `'${r}'`).join(' or ')}` })
+      })
+    const count = (role: string) => roles.filter((r) => r === role).length
+    const exactly = (role: string, what: string) => {
+      if (count(role) !== 1) ctx.addIssue({ code: 'custom', path: ['channels'], message: `${what} needs exactly one '${role}' channel` })
+    }
+    if (link.protocol === 'uart' || link.protocol === 'rs485') {
+      const what = link.protocol === 'uart' ? 'a UART link' : 'an RS-485 link'
+      if (!link.uart) ctx.addIssue({ code: 'custom', path: ['uart'], message: `${what} needs uart settings` })
+      const n = count('uart')
+      if (n < 1 || n > 2) ctx.addIssue({ code: 'custom', path: ['channels'], message: `${what} has one or two uart channels (one per direction)` })
+      if (link.protocol === 'uart') only(['uart'], "a UART link's")
+      else {
+        only(['uart', 'de'], "an RS-485 link's")
+        if (!link.rs485) ctx.addIssue({ code: 'custom', path: ['rs485'], message: 'an RS-485 link needs rs485 settings' })
+        const half = (link.rs485?.duplex ?? 'half') === 'half'
+        if (half) exactly('de', 'a half-duplex RS-485 link')
+        else if (count('de') > 0) ctx.addIssue({ code: 'custom', path: ['channels'], message: "a full-duplex RS-485 link has no 'de' channel (its drivers stay on)" })
+        link.channels.forEach((ch, i) => {
+          if (ch.role === 'de') {
+            const j = ch.stages.findIndex((s) => s.kind === 'transceiver')
+            const t = ch.stages[j]
+            if (!t || t.kind !== 'transceiver') ctx.addIssue({ code: 'custom', path: ['channels', i, 'stages'], message: "the 'de' channel ends at a transceiver stage (its enable and disable times)" })
+            else
+              for (const k of ['enableTime', 'disableTime'] as const)
+                if (t[k] === undefined) ctx.addIssue({ code: 'custom', path: ['channels', i, 'stages', j, k], message: `${k}: the driver-enable channel's transceiver needs its ${k === 'enableTime' ? 'enable time (tZH / tZL max)' : 'disable time (tHZ / tLZ min)'}` })
+          }
+          if (ch.role === 'uart' && !ch.stages.some((s) => s.kind === 'transceiver'))
+            ctx.addIssue({ code: 'custom', path: ['channels', i, 'stages'], message: 'an RS-485 data channel passes through a transceiver stage' })
+        })
+      }
+    }
+    if (link.protocol === 'i2c') {
+      if (!link.i2c) ctx.addIssue({ code: 'custom', path: ['i2c'], message: 'an I2C link needs i2c settings' })
+      exactly('scl', 'an I2C link')
+      exactly('sda', 'an I2C link')
+      only(['scl', 'sda'], "an I2C link's")
+    }
+    if (link.protocol === 'can') {
+      if (!link.can) ctx.addIssue({ code: 'custom', path: ['can'], message: 'a CAN link needs can settings' })
+      exactly('txd', 'a CAN link')
+      exactly('rxd', 'a CAN link')
+      only(['txd', 'rxd'], "a CAN link's")
+      link.channels.forEach((ch, i) => {
+        if (!ch.stages.some((s) => s.kind === 'transceiver'))
+          ctx.addIssue({ code: 'custom', path: ['channels', i, 'stages'], message: "a CAN node's txd and rxd channels pass through its transceiver stage" })
       })
     }
     if (link.protocol === 'spi') {
@@ -537,9 +746,7 @@ export const LinkSpec = z
           ctx.addIssue({ code: 'custom', path: ['channels'], message: `an SPI link needs exactly one '${need}' channel` })
       if (roles.filter((r) => r === 'cs').length > 1)
         ctx.addIssue({ code: 'custom', path: ['channels'], message: "an SPI link has at most one 'cs' channel" })
-      link.channels.forEach((ch, i) => {
-        if (ch.role === 'uart') ctx.addIssue({ code: 'custom', path: ['channels', i, 'role'], message: "an SPI link has no 'uart' channel" })
-      })
+      only(['sclk', 'mosi', 'miso', 'cs'], "an SPI link's")
       link.spi?.packages.forEach((p, i) =>
         p.channels.forEach((id, j) => {
           if (!ids.has(id)) ctx.addIssue({ code: 'custom', path: ['spi', 'packages', i, 'channels', j], message: `unknown channel '${id}'` })

@@ -83,7 +83,7 @@ export const CommentBody = z.object({
 export type CommentBody = z.infer<typeof CommentBody>
 
 /** The tables of a revision as CSV (GET /reports/:id/tables.csv?table=). */
-export const REPORT_TABLES = ['bits', 'checks', 'candidates', 'standard-rates', 'rate-sweep', 'stages', 'pullup'] as const
+export const REPORT_TABLES = ['bits', 'checks', 'candidates', 'standard-rates', 'rate-sweep', 'stages', 'pullup', 'bus-checks', 'i2c-levels', 'i2c-pullups', 'can-bit-timing', 'can-bus-length'] as const
 export type ReportTable = (typeof REPORT_TABLES)[number]
 export const ReportTablesQuery = z.object({ table: z.enum(REPORT_TABLES, { error: `table must be one of ${REPORT_TABLES.join(', ')}` }) })
 

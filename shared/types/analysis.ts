@@ -652,6 +652,12 @@ export interface LinkAnalysis {
   channels: ChannelResult[]
   uart: UartResult | null
   spi: SpiResult | null
+  /** I2C links: every check, the highest SCL and the pull-up sweep (null for other protocols) */
+  i2c: I2cLinkResult | null
+  /** CAN links: the bit-timing table, the chosen setting's checks, the longest bus (null for other protocols) */
+  can: CanLinkResult | null
+  /** RS-485 links: the driver-enable turnaround (the data itself is in `uart`; null for other protocols) */
+  rs485: Rs485LinkResult | null
   assumptions: string[]
   warnings: Warning[]
   /** the full parsed input (defaults filled in) */
@@ -795,4 +801,123 @@ export interface Rs485TurnaroundResult {
   /** the driver stays on past the end of the stop bit at the bus, with this much to spare (negative: the stop bit is cut) */
   lagSlack: number
   pass: boolean
+}
+
+
+// ---------------------------------------------------------------- Bus links (section 4): checks and timelines
+
+/** One timing check of a bus link: the value against its limit, slack in seconds (negative: violated). */
+export interface BusCheck {
+  id: string
+  /** what is checked, in words (with the specification's symbol) */
+  label: string
+  /** the quantity, seconds */
+  value: number
+  /** the limit it is held to, seconds (a minimum when `kind` is 'min', a maximum when 'max') */
+  limit: number
+  kind: 'min' | 'max'
+  /** seconds to spare after the required slack: value - limit (min) or limit - value (max) */
+  slack: number
+  pass: boolean
+  /** the unit of value, limit and slack: seconds unless stated ('fraction': a ratio such as a clock tolerance) */
+  unit?: 's' | 'fraction'
+}
+
+/**
+ * A bus timeline drawn by the engine: lanes of levels over time (0 = low, 1 = high, fractions
+ * on slow edges), shaded windows (a setup window, the round trip, the enable window) and marks
+ * (the sample point). Times in seconds from the timeline's origin.
+ */
+export interface BusTimeline {
+  span: number
+  lanes: { label: string; points: [number, number][] }[]
+  windows: { lane: number; t0: number; t1: number; label: string; pass: boolean | null }[]
+  marks: { t: number; label: string }[]
+}
+
+export interface I2cLinkResult {
+  mode: I2cMode
+  sclHz: number
+  dutyLow: number
+  /** every timing check, seconds; the limiting one decides the verdict */
+  checks: BusCheck[]
+  /** level checks (pull-up against Rp(min), bus capacitance, the isolator's low offset against VIL), in their own units */
+  levelChecks: { id: string; side: 'controller' | 'target'; label: string; value: number; limit: number; unit: string; pass: boolean }[]
+  sides: { controller: I2cSideResult; target: I2cSideResult }
+  /** SCL low and high at the controller and as the target sees them, seconds */
+  scl: { lowController: number; highController: number; lowTarget: number; highTarget: number }
+  /** SCL falling at the controller to the controller reading the target's SDA, seconds */
+  roundTrip: number
+  /** the highest SCL frequency (at this duty) meeting every timing check, hertz; null when none does */
+  maxSclHz: number | null
+  /** the check that sets maxSclHz */
+  maxSclLimitedBy: string | null
+  /** the check with the least slack */
+  limiting: string | null
+  worstSlack: number
+  pass: boolean
+  /** per side, pull-ups of an E series from half Rp(min) to twice Rp(max), each with its rise and the highest SCL */
+  pullupSweep: { side: 'controller' | 'target'; series: string; rows: { rp: number; rise: number; rpOk: boolean; riseOk: boolean; maxSclHz: number | null; current: boolean }[] }[]
+  timeline: BusTimeline
+}
+
+export interface CanBitTimingRow extends CanBitTiming {
+  /** the contract's names: baud-rate prescaler, and whether Prop_Seg covers the loop */
+  brp: number
+  loopDelayFits: boolean
+}
+
+export interface CanLinkResult {
+  bitRate: number
+  clockHz: number
+  /** this node's output (TXD to bus) and input (bus to RXD) delays, max, seconds, from the txd and rxd channels */
+  node: { outputDelay: number; inputDelay: number; loopDelay: number }
+  farNode: { outputDelay: number; inputDelay: number }
+  /** one-way delay of the bus, seconds */
+  busDelay: number
+  /** the time Prop_Seg must cover, seconds */
+  propagation: number
+  /** every setting of the clock for the bit rate, best first */
+  bitTimings: CanBitTimingRow[]
+  /** the setting analysed: the firmware's (settings.timing) or the best of the table */
+  chosen: CanBitTimingRow | null
+  chosenFrom: 'settings' | 'table'
+  checks: BusCheck[]
+  /** the longest bus at this bit rate, metres (null: not even 0 m) */
+  maxBusLength: number | null
+  /** for bit rates up to 1 Mbit/s: the longest bus each common rate allows, metres */
+  lengthByRate: { bitRate: number; maxBusLength: number | null }[]
+  fd: {
+    dataBitRate: number
+    dataBitTime: number
+    dataSamplePoint: number
+    /** how much shorter a recessive data bit arrives than it was sent (both channels' and the transceiver's asymmetry), seconds */
+    recessiveShortening: number
+    /** the transmitter's secondary sample point with TDC: loop delay + data sample point, seconds after the bit's start */
+    secondarySamplePoint: number | null
+    tdc: boolean
+  } | null
+  limiting: string | null
+  worstSlack: number
+  pass: boolean
+  timeline: BusTimeline
+}
+
+export interface Rs485LinkResult {
+  duplex: 'half' | 'full'
+  frameBits: number
+  /** TX to the bus (up to and with the first transceiver's driver), seconds */
+  dataPath: { min: number; max: number }
+  /** DE to the transceiver, seconds */
+  enablePath: { min: number; max: number } | null
+  driverEnable: number
+  driverDisable: number
+  checks: BusCheck[]
+  /** the shortest firmware lead and lag the link allows, seconds, and the frame's cost of the turnaround */
+  minLeadTime: number | null
+  minLagTime: number | null
+  limiting: string | null
+  worstSlack: number
+  pass: boolean
+  timeline: BusTimeline | null
 }

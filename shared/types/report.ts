@@ -98,7 +98,7 @@ export interface ReportSummaryDto {
   projectId: number
   projectName: string
   teamId: number
-  protocol: 'uart' | 'spi'
+  protocol: Link['protocol']
   state: ReportState
   verdict: 'pass' | 'marginal' | 'fail'
   engineVersion: string

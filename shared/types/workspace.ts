@@ -12,12 +12,18 @@ export interface LinkSummaryFields {
   missingValues?: number
   /** worst margin of the frame, unit intervals (UART); null when unbounded or SPI */
   worstMarginUi: number | null
-  /** worst SPI slack, seconds; null for UART */
+  /** worst slack, seconds: SPI, I2C, CAN, the RS-485 turnaround; null for UART */
   worstSlack: number | null
   /** highest baud meeting the required margin (UART), null when none passes or SPI */
   maxBaud: number | null
   /** highest SCLK meeting every check (SPI), hertz; null when none passes or UART */
   maxSclkHz: number | null
+  /** highest SCL meeting every check (I2C), hertz */
+  maxSclHz?: number | null
+  /** longest bus at the link's bit rate (CAN), metres */
+  maxBusLength?: number | null
+  /** the check with the least slack (I2C, CAN, RS-485 turnaround) */
+  limitingCheck?: string | null
   /** engine version that produced the summary */
   engineVersion: string | null
 }

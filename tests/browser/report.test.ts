@@ -144,7 +144,7 @@ describe('margin report in the browser', () => {
     await page.getByTestId('import-json').setInputFiles({ name: 'bad.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(bad)) })
     const alert = page.getByRole('alert').filter({ hasText: 'The file was not imported' })
     await alert.waitFor()
-    await expect(alert.textContent()).resolves.toMatch(/schemaVersion: schemaVersion must be 1/)
+    await expect(alert.textContent()).resolves.toMatch(/schemaVersion: schemaVersion must be 2/)
     await expect(alert.textContent()).resolves.toMatch(/channels: a link needs at least one channel/)
     await screenshot(page, 'project-import-problems')
     await page.getByTestId('import-json').setInputFiles({ name: 'good.json', mimeType: 'application/json', buffer: Buffer.from(JSON.stringify(good)) })

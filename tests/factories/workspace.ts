@@ -1,12 +1,14 @@
 /** Projects, links and parts, created through the API as a given user. */
 import { expect } from 'vitest'
 import type { LinkInput } from '../../shared/schemas/link'
-import { ADC_SPI_LINK, DEBUG_LINK, LOC10, TELEMETRY_LINK } from '../../server/db/seeders/demo-links'
+import { ADC_SPI_LINK, DEBUG_LINK, FIELD_RS485_LINK, LOC10, MONITOR_I2C_LINK, PUMP_CAN_LINK, TELEMETRY_LINK } from '../../server/db/seeders/demo-links'
 import type { ApiClient } from '../support/api'
 
 /** A valid link input (a deep copy of a demo link, renamed). */
-export function buildLinkSpec(kind: 'telemetry' | 'spi' | 'debug' = 'debug', name?: string): LinkInput {
-  const base = kind === 'telemetry' ? TELEMETRY_LINK : kind === 'spi' ? ADC_SPI_LINK : DEBUG_LINK
+const DEMO_BY_KIND = { telemetry: TELEMETRY_LINK, spi: ADC_SPI_LINK, debug: DEBUG_LINK, i2c: MONITOR_I2C_LINK, can: PUMP_CAN_LINK, rs485: FIELD_RS485_LINK }
+
+export function buildLinkSpec(kind: keyof typeof DEMO_BY_KIND = 'debug', name?: string): LinkInput {
+  const base = DEMO_BY_KIND[kind]
   const spec = structuredClone(base)
   if (name) spec.name = name
   return spec

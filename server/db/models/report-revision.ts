@@ -1,6 +1,6 @@
 import type { ReadingThresholds } from '../../../shared/report/vocabulary'
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type NonAttribute, type Sequelize } from 'sequelize'
-import type { Link as LinkSpec } from '../../../shared/schemas/link'
+import type { Link as LinkSpec, Protocol } from '../../../shared/schemas/link'
 import type { ReportState } from '../../../shared/schemas/report'
 import type { FrozenCapture, PullupChoice } from '../../../shared/types/report'
 import type { LinkAnalysis } from '../../timing/analyze'
@@ -24,7 +24,7 @@ export class ReportRevision extends Model<InferAttributes<ReportRevision>, Infer
   declare linkVersion: number
   declare linkName: string
   declare projectName: string
-  declare protocol: 'uart' | 'spi'
+  declare protocol: Protocol
   declare input: LinkSpec
   declare result: LinkAnalysis
   declare verdict: 'pass' | 'marginal' | 'fail'

@@ -3,7 +3,7 @@
  * deciding samples, from the engine's per-bit result), the SPI slack bars and the rate
  * sweep. They place what the engine computed; no timing rule of their own.
  */
-import type { UartChannelResult } from '../../../shared/types/analysis'
+import type { BusTimeline, UartChannelResult } from '../../../shared/types/analysis'
 import { MARGIN_LABEL, spiSlackState, uartMarginState, type ReadingThresholds } from '../../../shared/report/vocabulary'
 import { formatEng, formatUi } from '../../../shared/utils/units'
 import { INK, MUTED, RULE, STATE_COLOUR, type Layout } from './layout'
@@ -137,4 +137,35 @@ export function drawRateSweep(L: Layout, u: UartChannelResult, x0: number, y0: n
     doc.x = x0
     L.text(`The curve leaves the axis below ${formatUi(ymin)} from ${eng(clipped.baud, 'Bd', 4)} (rose line along the floor); its lowest margin is ${formatUi(lowest)} at ${eng(at.baud, 'Bd', 4)}.`, { size: 7, colour: STATE_COLOUR.broken, width: w })
   }
+}
+
+/** A bus timeline the engine drew: lanes of levels, shaded windows (green passes, rose fails, grey neutral) and dashed marks. */
+export function drawBusTimeline(L: Layout, tl: BusTimeline, x0: number, y0: number, w: number) {
+  const doc = L.doc
+  const labelW = 110
+  const laneH = 34
+  const all = tl.lanes.flatMap((l) => l.points.map((p) => p[0]))
+  const t0 = Math.min(...all)
+  const t1 = t0 + tl.span
+  const X = (t: number) => x0 + labelW + ((Math.max(t0, Math.min(t1, t)) - t0) / (t1 - t0)) * (w - labelW)
+  for (const win of tl.windows) {
+    const y = y0 + win.lane * laneH
+    const colour = win.pass === null ? MUTED : win.pass ? STATE_COLOUR.healthy : STATE_COLOUR.broken
+    doc.rect(X(win.t0), y + 2, Math.max(0.8, X(win.t1) - X(win.t0)), laneH - 10).fillOpacity(0.18).fill(colour).fillOpacity(1)
+    L.mono(`${win.label}${win.pass === false ? ' (fails)' : ''}`, X(win.t0) + 1, y + laneH - 8, { size: 5.5, colour, width: 160 })
+  }
+  tl.lanes.forEach((lane, i) => {
+    const y = y0 + i * laneH
+    L.mono(lane.label, x0, y + 9, { size: 6.5, width: labelW - 4 })
+    const Y = (v: number) => y + 22 - v * 18
+    lane.points.forEach((p, k) => (k ? doc.lineTo(X(p[0]), Y(p[1])) : doc.moveTo(X(p[0]), Y(p[1]))))
+    doc.lineWidth(0.9).strokeColor(INK).stroke()
+  })
+  const bottom = y0 + tl.lanes.length * laneH
+  for (const m of tl.marks) {
+    doc.moveTo(X(m.t), y0).lineTo(X(m.t), bottom).lineWidth(0.6).dash(2, { space: 2 }).strokeColor('#0369a1').stroke().undash()
+    L.mono(m.label, X(m.t) + 2, y0 - 7, { size: 5.5, colour: '#0369a1', width: 150 })
+  }
+  L.mono(`${formatEng(t0, 's')} … ${formatEng(t1, 's')}`, x0 + labelW, bottom + 2, { size: 6, colour: MUTED, width: w - labelW })
+  doc.y = bottom + 14
 }

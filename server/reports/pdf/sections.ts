@@ -18,10 +18,10 @@ import {
   uartMarginState,
   type ReadingThresholds,
 } from '../../../shared/report/vocabulary'
-import { bitColumns, endClockWords, pullupColumns, spiCandidateColumns, spiCheckColumns, splitStandardRates, stageColumns, standardRateColumns } from '../../../shared/report/tables'
+import { bitColumns, busCheckColumns, canLengthColumns, canTimingColumns, endClockWords, i2cLevelColumns, i2cPullupColumns, pullupColumns, spiCandidateColumns, spiCheckColumns, splitStandardRates, stageColumns, standardRateColumns } from '../../../shared/report/tables'
 import { SAFETY_CAUTION } from '../../../shared/utils/caution'
 import { formatEng, formatUi } from '../../../shared/utils/units'
-import { drawRateSweep, drawSlackBars, drawTimeline } from './charts'
+import { drawBusTimeline, drawRateSweep, drawSlackBars, drawTimeline } from './charts'
 import { INK, MUTED, STATE_COLOUR, type Layout } from './layout'
 
 type Report = ReportDetailDto
@@ -67,9 +67,33 @@ export function summarySection(L: Layout, r: Report) {
   doc.roundedRect(left, y, 92, 26, 3).fill(verdictColour)
   L.write(a.verdict.toUpperCase(), 'textBold', { size: 13, colour: '#ffffff', width: 92, align: 'center' }, left, y + 6)
   doc.y = y
-  L.keyValues([...uartSummary(r), ...spiSummary(r)], 86, left + 104, width - 104)
+  L.keyValues([...uartSummary(r), ...spiSummary(r), ...busSummary(r)], 86, left + 104, width - 104)
   doc.moveDown(0.8)
   L.box('Safety caution.', SAFETY_CAUTION, STATE_COLOUR.thin, '#fffbeb')
+}
+
+function busSummary(r: Report): [string, string][] {
+  const a = r.result
+  const limit = (id: string | null, checks: { id: string; label: string }[]) => (id ? `${id}: ${checks.find((c) => c.id === id)?.label ?? ''}` : 'none')
+  if (a.i2c)
+    return [
+      ['Worst slack', `${eng(a.i2c.worstSlack, 's')}, required ${eng(r.input.i2c?.requiredSlack ?? 0, 's')}`],
+      ['Highest SCL', `${a.i2c.maxSclHz === null ? 'none' : eng(a.i2c.maxSclHz, 'Hz')} (configured ${eng(a.i2c.sclHz, 'Hz')}, ${a.i2c.mode} mode)`],
+      ['Limited by', limit(a.i2c.limiting, [...a.i2c.checks, ...a.i2c.levelChecks])],
+    ]
+  if (a.can)
+    return [
+      ['Worst slack', eng(a.can.worstSlack, 's')],
+      ['Longest bus', `${a.can.maxBusLength === null ? 'none' : eng(a.can.maxBusLength, 'm')} at ${eng(a.can.bitRate, 'bit/s')} (this bus ${eng(r.input.can?.busLength, 'm')})`],
+      ['Limited by', limit(a.can.limiting, a.can.checks)],
+    ]
+  if (a.rs485 && a.rs485.checks.length)
+    return [
+      ['Turnaround slack', eng(a.rs485.worstSlack, 's')],
+      ['Shortest DE lead / lag', `${eng(a.rs485.minLeadTime, 's')} / ${eng(a.rs485.minLagTime, 's')}`],
+      ['Turnaround limited by', limit(a.rs485.limiting, a.rs485.checks)],
+    ]
+  return []
 }
 
 function uartSummary(r: Report): [string, string][] {
@@ -151,6 +175,31 @@ export function settingsSection(L: Layout, r: Report) {
       ['Receiver sampler', `${u.rx.sampler}, ${u.rx.oversampling}×, vote ${u.rx.vote}${u.rx.sampleTicks ? `, ticks ${u.rx.sampleTicks.join(' ')}` : ''}`],
     ])
   }
+  const i = r.input.i2c
+  if (i) {
+    L.subheading('I2C settings')
+    L.keyValues([
+      ['Mode and SCL', `${i.mode}, ${eng(i.sclHz, 'Hz')}${i.dutyLow !== undefined ? `, low ${Math.round(i.dutyLow * 1000) / 10} %` : ''}`],
+      ['Controller side', `VDD ${eng(i.controller.vdd, 'V')}, Rp ${eng(i.controller.rp, 'Ω')}, Cb ${eng(i.controller.cb, 'F')}, data hold ${eng(i.controller.tHdDat, 's')}`],
+      ['Target side', `VDD ${eng(i.target.vdd, 'V')}, Rp ${eng(i.target.rp, 'Ω')}, Cb ${eng(i.target.cb, 'F')}${i.target.tVdDat !== undefined ? `, tVD;DAT ${eng(i.target.tVdDat, 's')}` : ''}`],
+      ...(i.isolator.lowOffset !== undefined ? ([['Isolator offset', `${eng(i.isolator.lowOffset, 'V')} on the ${i.isolator.offsetSide} side`]] as [string, string][]) : []),
+    ])
+  }
+  const c = r.input.can
+  if (c) {
+    L.subheading('CAN settings')
+    L.keyValues([
+      ['Bit rate and clock', `${eng(c.bitRate, 'bit/s')} from ${eng(c.clockHz, 'Hz')}, sample point ${Math.round(c.samplePoint * 1000) / 10} %`],
+      ['Bus', `${eng(c.busLength, 'm')} at ${eng(c.delayPerMetre, 's')}/m`],
+      ...(c.timing ? ([['Firmware setting', `BRP ${c.timing.brp}, Prop_Seg ${c.timing.propSeg}, Phase_Seg1 ${c.timing.phaseSeg1}, Phase_Seg2 ${c.timing.phaseSeg2}, SJW ${c.timing.sjw}`]] as [string, string][]) : []),
+      ...(c.fd ? ([['CAN FD data phase', `${eng(c.fd.dataBitRate, 'bit/s')}, sample point ${Math.round(c.fd.dataSamplePoint * 1000) / 10} %, delay compensation ${c.fd.tdc ? 'on' : 'off'}`]] as [string, string][]) : []),
+    ])
+  }
+  const rs = r.input.rs485
+  if (rs) {
+    L.subheading('RS-485 settings')
+    L.keyValues([['Duplex and DE', `${rs.duplex} duplex, DE lead ${eng(rs.leadTime, 's')}, lag ${eng(rs.lagTime, 's')}`]])
+  }
   const s = r.input.spi
   if (s) {
     L.subheading('SPI settings')
@@ -162,6 +211,52 @@ export function settingsSection(L: Layout, r: Report) {
       ['Peripheral', `MOSI setup ${eng(s.peripheral.mosiSetup, 's')}, hold ${eng(s.peripheral.mosiHold, 's')}, clock to out ${eng(s.peripheral.clockToOut.min, 's')} to ${eng(s.peripheral.clockToOut.max, 's')}`],
       ...s.packages.map((p, i) => [`Package ${i + 1}`, `${p.channels.join(', ')}: channel skew ${eng(p.channelSkew, 's')}`] as [string, string]),
     ])
+  }
+}
+
+/** I2C, CAN and RS-485: the bus timeline, every check, and the tables that say what to change. */
+export function busSection(L: Layout, r: Report) {
+  const { i2c, can, rs485 } = r.result
+  if (i2c) {
+    L.heading('I2C checks', true)
+    L.note(`${i2c.mode} mode at SCL ${eng(i2c.sclHz, 'Hz')}, SCL low ${Math.round(i2c.dutyLow * 1000) / 10} % of the period; round trip ${eng(i2c.roundTrip, 's')}. A check passes when its slack meets the required slack (UM10204 limits).`)
+    L.doc.moveDown(0.3)
+    L.table(busCheckColumns(), i2c.checks)
+    L.subheading('Levels and pull-ups')
+    L.table(i2cLevelColumns(), i2c.levelChecks)
+    L.ensure(200)
+    L.subheading('Bus timeline')
+    drawBusTimeline(L, i2c.timeline, L.left, L.doc.y + 10, L.width)
+    L.doc.x = L.left
+    for (const sw of i2c.pullupSweep) {
+      L.heading(`Pull-up sweep, ${sw.side} side (${sw.series})`)
+      L.table(i2cPullupColumns(), sw.rows)
+    }
+  }
+  if (can) {
+    L.heading('CAN checks', true)
+    L.note(`At ${eng(can.bitRate, 'bit/s')} from a ${eng(can.clockHz, 'Hz')} clock; loop delay ${eng(can.node.loopDelay, 's')}, Prop_Seg must cover ${eng(can.propagation, 's')}; setting checked: ${can.chosenFrom === 'settings' ? "the firmware's" : "the table's best"}.`)
+    L.doc.moveDown(0.3)
+    L.table(busCheckColumns(), can.checks)
+    L.ensure(180)
+    L.subheading('One bit')
+    drawBusTimeline(L, can.timeline, L.left, L.doc.y + 10, L.width)
+    L.doc.x = L.left
+    L.heading('Bit-timing table')
+    L.table(canTimingColumns(), can.bitTimings)
+    L.subheading('Longest bus per bit rate')
+    L.table(canLengthColumns(), can.lengthByRate)
+  }
+  if (rs485 && rs485.checks.length) {
+    L.heading('RS-485 turnaround', true)
+    L.note(`Data to the bus ${eng(rs485.dataPath.min, 's')} to ${eng(rs485.dataPath.max, 's')}; driver enable ${eng(rs485.driverEnable, 's')}, disable ${eng(rs485.driverDisable, 's')}; shortest DE lead ${eng(rs485.minLeadTime, 's')}, lag ${eng(rs485.minLagTime, 's')}.`)
+    L.doc.moveDown(0.3)
+    L.table(busCheckColumns(), rs485.checks)
+    if (rs485.timeline) {
+      L.ensure(150)
+      drawBusTimeline(L, rs485.timeline, L.left, L.doc.y + 10, L.width)
+      L.doc.x = L.left
+    }
   }
 }
 

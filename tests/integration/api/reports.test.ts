@@ -243,7 +243,7 @@ describe('recompute, exports and import', () => {
     const dl = await w.clients.viewer.request('GET', `/reports/${r.id}/link.json`)
     expect(dl.status).toBe(200)
     const json = typeof dl.data === 'string' ? JSON.parse(dl.data) : dl.data
-    expect(json.schemaVersion).toBe(1)
+    expect(json.schemaVersion).toBe(2)
     const current = await w.clients.viewer.request('GET', `/links/${spiLinkId}/link.json`)
     expect(current.status).toBe(200)
 

@@ -21,7 +21,7 @@ function issue(schema: { safeParse: (v: unknown) => { success: boolean; error?: 
 describe('link schema: good links', () => {
   it('parses the demo links and fills in the schema version and defaults', () => {
     const uart = LinkSpec.parse(TELEMETRY_LINK)
-    expect(uart.schemaVersion).toBe(1)
+    expect(uart.schemaVersion).toBe(2)
     expect(uart.uart!.rx.sampler).toBeDefined()
     expect(LinkSpec.parse(ADC_SPI_LINK).protocol).toBe('spi')
   })
