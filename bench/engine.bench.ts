@@ -10,7 +10,7 @@
  */
 import { performance } from 'node:perf_hooks'
 import { LinkSpec, type PhototransistorStage } from '../shared/schemas/link'
-import { TELEMETRY_LINK } from '../server/db/seeders/demo-links'
+import { FIELD_RS485_LINK, MONITOR_I2C_LINK, PUMP_CAN_LINK, TELEMETRY_LINK } from '../server/db/seeders/demo-links'
 import { analyzeLink } from '../server/timing/analyze'
 import { canBitTimings, canMaxBusLength } from '../server/timing/can'
 import { analyzeChain } from '../server/timing/chain'
@@ -67,7 +67,7 @@ line('full UART analysis (analyzeLink)', median(() => analyzeLink(link), 200, 50
   }, 2000, 200), '<= 2 ms')
 }
 
-// 2b. bus building blocks (issue 15; not yet link types): a CAN bit-timing table search and an isolated I2C bus
+// 2b. bus links (issue 15): the building blocks, then the full analysis of each demo bus link (the CAN one includes its bit-timing table search)
 {
   // TI DCAN TRM worked example's node (driver 60 ns, receiver 40 ns) behind a 25 ns isolator each way, 40 m, 80 MHz, 500 kbit/s
   const node = { isolatorTx: 25e-9, driver: 60e-9, receiver: 40e-9, isolatorRx: 25e-9 }
@@ -77,6 +77,10 @@ line('full UART analysis (analyzeLink)', median(() => analyzeLink(link), 200, 50
   const side = { vdd: 3.3, rp: 2200, cb: 100e-12 }
   const i2c = { mode: 'fast' as const, a: side, b: side, isolator: { abFall: 30e-9, abRise: 50e-9, ba: 50e-9 }, fScl: 400e3 }
   line('isolated I2C bus (i2cBus, both sides)', median(() => i2cBus(i2c), 2000, 200), '<= 1 ms')
+  const [i2cLink, canLink, rs485Link] = [MONITOR_I2C_LINK, PUMP_CAN_LINK, FIELD_RS485_LINK].map((l) => LinkSpec.parse(l))
+  line('I2C link analysis (analyzeLink, checks + pull-up sweep per side)', median(() => analyzeLink(i2cLink!), 1000, 100), '<= 1 ms')
+  line('CAN link analysis (analyzeLink, bit-timing table + FD)', median(() => analyzeLink(canLink!), 1000, 100), '<= 1 ms')
+  line('RS-485 link analysis (analyzeLink, UART + turnaround)', median(() => analyzeLink(rs485Link!), 500, 50), '<= 1 ms')
 }
 
 // 3. spread study, 100k trials (module of the engine core)

@@ -101,14 +101,15 @@ export const useDraftLinkStore = defineStore('draftLink', () => {
     saving.value = true
     saveError.value = null
     try {
+      const sent = canonical(draft.value)
       const res = await $fetch<LinkDto>(`/api/links/${linkId.value}`, {
         method: 'PATCH',
         body: { version: saved.value.version, spec: draft.value },
       })
-      const mine = canonical(draft.value)
       saved.value = clone(res)
-      // keep edits made while the request was in flight
-      if (canonical(res.spec) === mine) draft.value = clone(res.spec)
+      // the server stores the link as the schema reads it (defaults filled in): take that form,
+      // unless the draft was edited while the request was in flight (those edits stay unsaved)
+      if (canonical(draft.value) === sent) draft.value = clone(res.spec)
       conflict.value = null
       savedAt.value = new Date().toISOString()
       return true

@@ -19,7 +19,7 @@ import { pageQuery, PAGE_SIZES } from '../utils/paging'
 const id = (name: string, what: string) => z.object({ [name]: z.number().int().positive().meta({ description: `the ${what}'s id` }) })
 
 /** A link as the editor saves it: the link schema, where a draft may leave values null until they are known. */
-const DraftSpec = LinkSpec.meta({ id: 'Link', description: 'A link across isolation (UART or SPI): its channels, stages, receiver and protocol settings, SI units throughout. A saved draft may hold null where a value is still to enter; it is analysed once complete.' })
+const DraftSpec = LinkSpec.meta({ id: 'Link', description: 'A link across isolation (UART, SPI, I2C, CAN or RS-485): its channels, stages, receiver and protocol settings, SI units throughout. A saved draft may hold null where a value is still to enter; it is analysed once complete.' })
 const Version = z.number().int().positive().meta({ description: 'the version the change is based on (409 when another save came first)' })
 
 const json = (schema: z.ZodType, description: string) => ({ description, content: { 'application/json': { schema } } })

@@ -1,6 +1,6 @@
 /** Project, link and part DTOs (shared/types/workspace.ts) from models. */
 import type { Role } from '../../shared/schemas/roles'
-import type { LinkDto, LinkSummaryDto, PartDto, ProjectDetailDto, ProjectDto, SignOffRef } from '../../shared/types/workspace'
+import type { LinkDto, LinkSummaryDto, LinkSummaryFields, PartDto, ProjectDetailDto, ProjectDto, SignOffRef } from '../../shared/types/workspace'
 import type { Link, Part, Project } from '../db/models'
 
 export function presentProject(p: Project, linkCount: number): ProjectDto {
@@ -22,15 +22,25 @@ export function presentLinkSummary(l: Link, signedOff?: SignOffRef | null): Link
     name: l.name,
     protocol: l.protocol,
     version: l.version,
-    verdict: l.summary?.verdict ?? null,
-    ...(l.summary?.missingValues !== undefined ? { missingValues: l.summary.missingValues } : {}),
-    worstMarginUi: l.summary?.worstMarginUi ?? null,
-    worstSlack: l.summary?.worstSlack ?? null,
-    maxBaud: l.summary?.maxBaud ?? null,
-    maxSclkHz: l.summary?.maxSclkHz ?? null,
-    engineVersion: l.summary?.engineVersion ?? null,
+    ...summaryFields(l.summary),
     updatedAt: l.updatedAt.toISOString(),
     ...(signedOff !== undefined ? { signedOff } : {}),
+  }
+}
+
+/** The stored analysis summary as the DTOs carry it (a summary saved before a field existed reads null there). */
+function summaryFields(sm: LinkSummaryFields | null | undefined): LinkSummaryFields {
+  return {
+    verdict: sm?.verdict ?? null,
+    ...(sm?.missingValues !== undefined ? { missingValues: sm.missingValues } : {}),
+    worstMarginUi: sm?.worstMarginUi ?? null,
+    worstSlack: sm?.worstSlack ?? null,
+    maxBaud: sm?.maxBaud ?? null,
+    maxSclkHz: sm?.maxSclkHz ?? null,
+    maxSclHz: sm?.maxSclHz ?? null,
+    maxBusLength: sm?.maxBusLength ?? null,
+    limitingCheck: sm?.limitingCheck ?? null,
+    engineVersion: sm?.engineVersion ?? null,
   }
 }
 
@@ -47,15 +57,7 @@ export function presentLink(l: Link, role: Role, signedOff?: SignOffRef | null):
     name: l.name,
     version: l.version,
     spec: l.spec,
-    summary: {
-      verdict: l.summary?.verdict ?? null,
-      ...(l.summary?.missingValues !== undefined ? { missingValues: l.summary.missingValues } : {}),
-      worstMarginUi: l.summary?.worstMarginUi ?? null,
-      worstSlack: l.summary?.worstSlack ?? null,
-      maxBaud: l.summary?.maxBaud ?? null,
-      maxSclkHz: l.summary?.maxSclkHz ?? null,
-      engineVersion: l.summary?.engineVersion ?? null,
-    },
+    summary: summaryFields(l.summary),
     createdAt: l.createdAt.toISOString(),
     updatedAt: l.updatedAt.toISOString(),
     updatedBy: l.updater ? { id: l.updater.id, name: l.updater.name } : null,

@@ -13,7 +13,7 @@ import { diffSpecs } from '../utils/specDiff'
 export interface MarginChange {
   /** what is compared: "worst margin", "bit d7", "check mosi-setup", "maximum rate" */
   what: string
-  unit: 'UI' | 's' | 'Bd' | 'Hz'
+  unit: 'UI' | 's' | 'Bd' | 'Hz' | 'm'
   a: number | null
   b: number | null
   /** b - a; null when either side has none */
@@ -43,7 +43,7 @@ const change = (what: string, unit: MarginChange['unit'], a: number | null | und
 /** The size of a change for ordering: relative for rates, absolute UI for margins, slack against the half period. */
 function weight(c: MarginChange, halfPeriod: number): number {
   if (c.change === null) return c.a === c.b ? 0 : Number.POSITIVE_INFINITY
-  if (c.unit === 'Bd' || c.unit === 'Hz') return Math.abs(c.change) / Math.max(Math.abs(c.a ?? 0), Math.abs(c.b ?? 0), 1)
+  if (c.unit === 'Bd' || c.unit === 'Hz' || c.unit === 'm') return Math.abs(c.change) / Math.max(Math.abs(c.a ?? 0), Math.abs(c.b ?? 0), 1)
   if (c.unit === 's') return Math.abs(c.change) / (halfPeriod || 1)
   return Math.abs(c.change)
 }
@@ -63,7 +63,19 @@ export function diffLinks(a: Link, b: Link, ra: LinkAnalysis, rb: LinkAnalysis):
     const ids = [...new Set([...(ra.spi?.checks ?? []), ...(rb.spi?.checks ?? [])].map((x) => x.id))]
     for (const id of ids) margins.push(change(`check ${id}`, 's', ra.spi?.checks.find((x) => x.id === id)?.slack, rb.spi?.checks.find((x) => x.id === id)?.slack))
   }
-  const halfPeriod = rb.spi?.halfPeriod ?? ra.spi?.halfPeriod ?? 0
+  // the bus links: the worst slack, what the link allows at most, and every check (slack in seconds; a fraction-valued check is left out)
+  const busChecks = (r: LinkAnalysis) => (r.i2c?.checks ?? r.can?.checks ?? r.rs485?.checks ?? []).filter((c) => c.unit !== 'fraction')
+  if (ra.i2c || rb.i2c || ra.can || rb.can || ra.rs485?.checks.length || rb.rs485?.checks.length) {
+    const worst = (r: LinkAnalysis) => r.i2c?.worstSlack ?? r.can?.worstSlack ?? (r.rs485?.checks.length ? r.rs485.worstSlack : null)
+    margins.push(change(ra.rs485 || rb.rs485 ? 'turnaround slack' : 'worst slack', 's', worst(ra), worst(rb)))
+    if (ra.i2c || rb.i2c) margins.push(change('highest SCL', 'Hz', ra.i2c?.maxSclHz, rb.i2c?.maxSclHz))
+    if (ra.can || rb.can) margins.push(change('longest bus', 'm', ra.can?.maxBusLength, rb.can?.maxBusLength))
+    const ids = [...new Set([...busChecks(ra), ...busChecks(rb)].map((x) => x.id))]
+    for (const id of ids) margins.push(change(`check ${id}`, 's', busChecks(ra).find((x) => x.id === id)?.slack, busChecks(rb).find((x) => x.id === id)?.slack))
+  }
+  // slack is weighed against a time of the link: SPI's half period, I2C's SCL period, CAN's bit, the UART bit of an RS-485 link
+  const timeOf = (r: LinkAnalysis) => r.spi?.halfPeriod ?? (r.i2c ? 1 / r.i2c.sclHz : r.can ? 1 / r.can.bitRate : r.uart?.bitTime)
+  const halfPeriod = timeOf(rb) ?? timeOf(ra) ?? 0
   const changed = margins.filter((m) => m.a !== m.b).sort((x, y) => weight(y, halfPeriod) - weight(x, halfPeriod))
   return {
     inputs: diffSpecs(a, b).map((d) => ({ path: d.path, a: d.mine, b: d.theirs })),
@@ -88,7 +100,8 @@ export function groupInputs(changes: InputChange[], a: Link, b: Link): InputGrou
   for (const ch of changes) {
     const p = ch.path.split('.')
     let key = p[0]!
-    let title = key === 'uart' ? 'UART settings' : key === 'spi' ? 'SPI settings' : key === 'channels' ? 'channels' : 'link'
+    const SETTINGS: Record<string, string> = { uart: 'UART settings', spi: 'SPI settings', i2c: 'I2C settings', can: 'CAN settings', rs485: 'RS-485 settings', channels: 'channels' }
+    let title = SETTINGS[key] ?? 'link'
     if (p[0] === 'channels' && p.length > 2) {
       const c = Number(p[1])
       if (p[2] === 'stages' && p.length > 3) {

@@ -52,7 +52,7 @@ async function fill(page: Page, scope: ReturnType<Page['locator']> | Page, label
 /** Save, wait for the saved state, freeze, and land on the report. */
 async function saveAndFreeze(page: Page) {
   await page.getByRole('button', { name: 'Save', exact: true }).click()
-  await expect.poll(() => page.getByTestId('save-state').textContent(), { timeout: 20_000 }).toMatch(/saved/i)
+  await expect.poll(() => page.getByTestId('save-state').textContent(), { timeout: 20_000 }).toMatch(/All edits saved/)
   const revisions = page.getByTestId('link-revisions')
   await revisions.getByRole('button', { name: 'Freeze as revision' }).click()
   await page.waitForURL(/\/reports\/\d+$/)

@@ -41,14 +41,14 @@ async function pdfOf(p: string): Promise<string> {
 
 describe('analysis of the new link types', () => {
   it('the analysis route returns the contract fields for each', async () => {
-    const i2c = await w.clients.viewer.post('/api/analyze', { link: buildLinkSpec('i2c') })
+    const i2c = await w.clients.viewer.post('/api/analyze', buildLinkSpec('i2c'))
     expect(i2c.status, JSON.stringify(i2c.data).slice(0, 300)).toBe(200)
     expect(i2c.data.i2c.checks[0]).toMatchObject({ id: expect.any(String), slack: expect.any(Number), pass: expect.any(Boolean) })
     expect(i2c.data.i2c.maxSclHz).toBeGreaterThan(0)
-    const can = await w.clients.viewer.post('/api/analyze', { link: buildLinkSpec('can') })
+    const can = await w.clients.viewer.post('/api/analyze', buildLinkSpec('can'))
     expect(can.data.can.bitTimings[0]).toMatchObject({ brp: expect.any(Number), tq: expect.any(Number), propSeg: expect.any(Number), phaseSeg1: expect.any(Number), phaseSeg2: expect.any(Number), sjw: expect.any(Number), samplePoint: expect.any(Number), tolerance: expect.any(Number), loopDelayFits: expect.any(Boolean) })
     expect(can.data.can.maxBusLength).toBeGreaterThan(0)
-    const rs = await w.clients.viewer.post('/api/analyze', { link: buildLinkSpec('rs485') })
+    const rs = await w.clients.viewer.post('/api/analyze', buildLinkSpec('rs485'))
     expect(rs.data.verdict).toBe('fail')
     expect(rs.data.rs485.limiting).toBe('de-lead')
     // the saved link's summary says the same
@@ -62,18 +62,18 @@ describe('analysis of the new link types', () => {
   it('bad input gets a 400 naming the field, never NaN', async () => {
     const low = buildLinkSpec('i2c')
     low.i2c!.target.rp = 500
-    const a = await w.clients.engineer.post('/api/analyze', { link: low })
+    const a = await w.clients.engineer.post('/api/analyze', low)
     expect(a.status).toBe(400)
     expect(JSON.stringify(a.data)).toMatch(/i2c\.target\.rp/)
     const imp = buildLinkSpec('can')
     imp.can!.clockHz = 10e6
     imp.can!.bitRate = 333e3
-    const b = await w.clients.engineer.post('/api/analyze', { link: imp })
+    const b = await w.clients.engineer.post('/api/analyze', imp)
     expect(b.status).toBe(400)
     expect(JSON.stringify(b.data)).toMatch(/can\.clockHz/)
     const sp = buildLinkSpec('can')
     sp.can!.samplePoint = 1.5
-    const c = await w.clients.engineer.post('/api/analyze', { link: sp })
+    const c = await w.clients.engineer.post('/api/analyze', sp)
     expect(c.status).toBe(400)
     expect(JSON.stringify(c.data)).toMatch(/can\.samplePoint/)
     // a save of the same is refused the same way

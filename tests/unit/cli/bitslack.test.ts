@@ -9,10 +9,10 @@ import { tmpdir } from 'node:os'
 import path from 'node:path'
 import { promisify } from 'node:util'
 import { beforeAll, describe, expect, it } from 'vitest'
-import { ADC_SPI_LINK, DEBUG_LINK, TELEMETRY_LINK } from '../../../server/db/seeders/demo-links'
+import { ADC_SPI_LINK, DEBUG_LINK, FIELD_RS485_LINK, MONITOR_I2C_LINK, PUMP_CAN_LINK, TELEMETRY_LINK } from '../../../server/db/seeders/demo-links'
 import { analyzeParsedLink } from '../../../server/timing'
 import { LinkSpec } from '../../../shared/schemas/link'
-import { formatUi } from '../../../shared/utils/units'
+import { formatEng, formatUi } from '../../../shared/utils/units'
 
 const run = promisify(execFile)
 const bin = path.resolve('bin/bitslack.mjs')
@@ -38,6 +38,23 @@ beforeAll(() => {
 })
 
 describe('bitslack check, locally', () => {
+  it('checks the bus links: the limiting check, its slack and what the link allows at most', async () => {
+    const i2c = analyzeParsedLink(LinkSpec.parse(MONITOR_I2C_LINK)).i2c!
+    const a = await bitslack('check', file('i2c.json', MONITOR_I2C_LINK))
+    expect(a.code).toBe(0)
+    expect(a.out).toContain(`limiting check: ${i2c.limiting}, slack ${formatEng(i2c.worstSlack, 's')}`)
+    expect(a.out).toContain(`SCL ${formatEng(i2c.maxSclHz, 'Hz')}`)
+    const can = analyzeParsedLink(LinkSpec.parse(PUMP_CAN_LINK)).can!
+    const b = await bitslack('check', file('can.json', PUMP_CAN_LINK))
+    expect(b.code).toBe(0)
+    expect(b.out).toContain(`bus up to ${can.maxBusLength!.toFixed(0)} m`)
+    // the RS-485 demo fails its turnaround: exit 1, the failing check named
+    const c = await bitslack('check', file('rs485.json', FIELD_RS485_LINK))
+    expect(c.code).toBe(1)
+    expect(c.out).toContain('verdict: FAIL')
+    expect(c.out).toContain('failing: de-lead')
+  }, 30_000)
+
   it('fails the demo telemetry link (exit 1) with the engine\'s verdict, worst bit and maximum rate', async () => {
     const a = analyzeParsedLink(LinkSpec.parse(TELEMETRY_LINK))
     expect(a.verdict).toBe('fail')
