@@ -123,10 +123,20 @@ function linkAssumptions(link: Link): string[] {
   for (const ch of link.channels)
     for (const st of ch.stages)
       if (st.kind === 'digital' && st.failsafe)
-        assumptions.push(`Stage '${st.name}' (${ch.id}): when its input side loses supply, its output goes ${st.failsafe} (the part's default output state); a ${st.failsafe === 'high' ? 'UART line reads idle' : 'UART line reads a break'}.`)
+        assumptions.push(`Stage '${st.name}' (${ch.id}): when its input side loses supply, its output goes ${st.failsafe} (the part's default output state); ${failsafeMeaning(ch.role, st.failsafe)}.`)
   const noEdge = link.channels.flatMap((ch) => ch.stages.filter((s) => s.kind === 'digital' && (!s.tr || !s.tf)).map((s) => `'${s.name}' (${ch.id})`))
   if (noEdge.length) assumptions.push(`Stages without a stated tr or tf, taken as ideal edges: ${noEdge.join(', ')}.`)
   return assumptions
+}
+
+/** What a stuck-high or stuck-low output means on a channel of this role. */
+function failsafeMeaning(role: Link['channels'][number]['role'], level: 'high' | 'low'): string {
+  if (role === 'txd') return level === 'high' ? 'the node sends recessive and stays off the bus' : 'the node holds the bus dominant (its transceiver\'s dominant time-out, if it has one, releases it)'
+  if (role === 'rxd') return level === 'high' ? 'the controller reads a recessive bus' : 'the controller reads a dominant bus'
+  if (role === 'de') return level === 'high' ? 'the driver stays enabled and holds the bus' : 'the driver stays off the bus'
+  if (role === 'scl' || role === 'sda') return level === 'high' ? 'the line is released' : 'the line is held low (the bus hangs)'
+  if (role === 'uart') return level === 'high' ? 'a UART line reads idle' : 'a UART line reads a break'
+  return `the ${role.toUpperCase()} line sits ${level}`
 }
 
 /** A channel as the result reports it: the chain without its warnings, each stage as its corners. */

@@ -77,7 +77,8 @@ export interface CanTimingInput {
  * Every setting of the CAN clock that gives the bit rate exactly with 8 to 25 tq per bit:
  * Prop_Seg as the round trip needs (or the most the bit leaves), the phase segments placing the
  * sample point nearest the wanted one, SJW as large as allowed; with its tolerance, whether the
- * loop delay fits, and the longest bus it would allow. Best first: loop fits, then tolerance.
+ * loop delay fits, and the longest bus it would allow. Best first: the loop fits, then the sample point
+ * nearest the wanted one, then the larger oscillator tolerance.
  */
 export function canBitTimings(i: CanTimingInput): CanBitTiming[] {
   if (!(i.clockHz > 0)) throw new EngineInputError(['clockHz'], 'the CAN clock must be positive')
@@ -130,7 +131,9 @@ export function canBitTimings(i: CanTimingInput): CanBitTiming[] {
       maxLength: length >= 0 ? length / perMetre : null,
     })
   }
-  return rows.sort((a, b) => Number(b.loopFits) - Number(a.loopFits) || b.tolerance - a.tolerance || a.prescaler - b.prescaler)
+  // sample points within half a percent of each other count as equally near the wanted one
+  const off = (r: CanBitTiming) => Math.round(Math.abs(r.samplePoint - wanted) * 200)
+  return rows.sort((a, b) => Number(b.loopFits) - Number(a.loopFits) || off(a) - off(b) || b.tolerance - a.tolerance || a.prescaler - b.prescaler)
 }
 
 /**

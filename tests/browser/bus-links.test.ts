@@ -95,6 +95,7 @@ describe('new link types in the browser', () => {
     await fill(page, a, 'Controller data hold', '300 ns')
     await expect.poll(() => page.getByTestId('verdict').first().textContent(), { timeout: 20_000 }).toMatch(/pass/i)
     await screenshot(page, 'i2c-link')
+    await page.locator('#link-timeline').screenshot({ path: 'tests/.artifacts/screenshots/i2c-timeline.png' })
     const reportId = await saveAndFreeze(page)
     await page.getByRole('heading', { name: 'I2C checks' }).waitFor()
     const stored = (await world.clients.viewer.get(`/api/reports/${reportId}`)).data
@@ -128,6 +129,7 @@ describe('new link types in the browser', () => {
     await fill(page, page, 'Bus length', '25 m')
     await expect.poll(() => page.getByTestId('verdict').first().textContent(), { timeout: 20_000 }).toMatch(/pass/i)
     await screenshot(page, 'can-link')
+    await page.locator('#link-timeline').screenshot({ path: 'tests/.artifacts/screenshots/can-timeline.png' })
     await saveAndFreeze(page)
     await page.getByRole('heading', { name: 'Bit-timing table and bus length' }).waitFor()
     await screenshot(page, 'can-report')
@@ -150,6 +152,7 @@ describe('new link types in the browser', () => {
     await fill(page, page, 'DE lag after the stop bit', '1 us')
     await expect.poll(() => page.getByTestId('verdict').first().textContent(), { timeout: 20_000 }).toMatch(/pass|marginal/i)
     await screenshot(page, 'rs485-link')
+    await page.locator('#link-turnaround').screenshot({ path: 'tests/.artifacts/screenshots/rs485-timeline.png' })
     await saveAndFreeze(page)
     await page.getByRole('heading', { name: 'RS-485 turnaround checks' }).waitFor()
     await screenshot(page, 'rs485-report')

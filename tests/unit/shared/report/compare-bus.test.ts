@@ -24,7 +24,9 @@ describe('comparing bus links', () => {
   })
 
   it('CAN: a longer bus costs loop-delay slack and leaves the longest bus as it was', () => {
-    const d = pair(PUMP_CAN_LINK, (l) => (l.can!.busLength = 35))
+    // the firmware's own setting (16 tq of 125 ns from 40 MHz), so the same Prop_Seg is compared
+    const fixed = { ...structuredClone(PUMP_CAN_LINK), can: { ...PUMP_CAN_LINK.can!, timing: { brp: 5, propSeg: 7, phaseSeg1: 6, phaseSeg2: 2, sjw: 2 } } }
+    const d = pair(fixed, (l) => (l.can!.busLength = 35))
     // 10 m more at 5 ns/m, both ways: 100 ns less slack
     expect(d.margins.find((m) => m.what === 'check loop-delay')!.change).toBeCloseTo(-100e-9, 15)
     expect(d.margins.find((m) => m.what === 'longest bus')).toBeUndefined()
