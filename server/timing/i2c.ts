@@ -15,10 +15,10 @@ export type { I2cMode, I2cSideInput, I2cSideResult }
 export const RISE_30_70 = Math.log(7 / 3)
 
 /** Mode limits, UM10204 Table 10 (characteristics of the SDA and SCL bus lines), seconds, farads, amperes, hertz. */
-export const I2C_MODES: Record<I2cMode, { fSclMax: number; riseMax: number; cbMax: number; iol: number; tLow: number; tHigh: number; tSuDat: number }> = {
-  standard: { fSclMax: 100e3, riseMax: 1000e-9, cbMax: 400e-12, iol: 3e-3, tLow: 4.7e-6, tHigh: 4.0e-6, tSuDat: 250e-9 },
-  fast: { fSclMax: 400e3, riseMax: 300e-9, cbMax: 400e-12, iol: 3e-3, tLow: 1.3e-6, tHigh: 0.6e-6, tSuDat: 100e-9 },
-  'fast-plus': { fSclMax: 1e6, riseMax: 120e-9, cbMax: 550e-12, iol: 20e-3, tLow: 0.5e-6, tHigh: 0.26e-6, tSuDat: 50e-9 },
+export const I2C_MODES: Record<I2cMode, { fSclMax: number; riseMax: number; fallMax: number; cbMax: number; iol: number; tLow: number; tHigh: number; tSuDat: number }> = {
+  standard: { fSclMax: 100e3, riseMax: 1000e-9, fallMax: 300e-9, cbMax: 400e-12, iol: 3e-3, tLow: 4.7e-6, tHigh: 4.0e-6, tSuDat: 250e-9 },
+  fast: { fSclMax: 400e3, riseMax: 300e-9, fallMax: 300e-9, cbMax: 400e-12, iol: 3e-3, tLow: 1.3e-6, tHigh: 0.6e-6, tSuDat: 100e-9 },
+  'fast-plus': { fSclMax: 1e6, riseMax: 120e-9, fallMax: 120e-9, cbMax: 550e-12, iol: 20e-3, tLow: 0.5e-6, tHigh: 0.26e-6, tSuDat: 50e-9 },
 }
 
 /** 30 %-70 % rise time of an open-drain line: 0.8473 Rp Cb (UM10204 section 7.1). */

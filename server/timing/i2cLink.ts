@@ -28,7 +28,17 @@ interface IsolatorDelays {
 }
 
 /** Checks that do not scale with the SCL period and are spec limits rather than the team's slack. */
-const SPEC_ONLY = new Set(['rise-controller', 'rise-target', 'mode-frequency'])
+const SPEC_ONLY = new Set(['rise-controller', 'rise-target', 'fall-controller', 'fall-target', 'mode-frequency'])
+
+/**
+ * The 70 %-30 % fall of a line a driver pulls down: the bus capacitance discharged by the driver's
+ * sink current (at least the mode's IOL once above VOL, UM10204 Table 10) less what the pull-up
+ * feeds in at mid-swing, 0.5 VDD / Rp. Common practice: a constant-current driver, the slow case.
+ */
+export function fallTime(side: { vdd: number; rp: number; cb: number }, iol: number): number {
+  const net = iol - (0.5 * side.vdd) / side.rp
+  return net > 0 ? (side.cb * 0.4 * side.vdd) / net : Number.POSITIVE_INFINITY
+}
 
 type I2c = NonNullable<Link['i2c']>
 
@@ -55,6 +65,8 @@ function timingChecks(s: I2c, iso: IsolatorDelays, T: number): BusCheck[] {
   return [
     max('rise-controller', 'tr, controller side (30 %-70 %, 0.8473 Rp Cb)', ra(0.7) - ra(0.3), m.riseMax),
     max('rise-target', 'tr, target side (30 %-70 %, 0.8473 Rp Cb)', rb(0.7) - rb(0.3), m.riseMax),
+    max('fall-controller', "tf, controller side (70 %-30 %, a driver sinking the mode's IOL against the pull-up)", fallTime(a, m.iol), m.fallMax),
+    max('fall-target', "tf, target side (70 %-30 %, a driver sinking the mode's IOL against the pull-up)", fallTime(b, m.iol), m.fallMax),
     min('mode-frequency', "SCL period against the mode's fSCL(max)", T, 1 / m.fSclMax),
     min('low-controller', 'tLOW at the controller', lowA + ra(0.3), m.tLow),
     min('high-controller', 'tHIGH at the controller', T - lowA - ra(0.7), m.tHigh),
@@ -190,8 +202,7 @@ function pullupSweep(s: I2c, iso: IsolatorDelays, side: 'controller' | 'target',
     const variant: I2c = { ...s, [side]: { ...v, rp } }
     const rise = Math.log(7 / 3) * rp * v.cb
     const rpOk = rp >= rpMin * (1 - 1e-9)
-    const top = maxScl(variant, iso)
-    return { rp, rise, rpOk, riseOk: rise <= m.riseMax, maxSclHz: rpOk ? top.hz : null, current: Math.abs(rp - v.rp) <= 1e-6 * v.rp }
+    return { rp, rise, rpOk, riseOk: rise <= m.riseMax, maxSclHz: rpOk ? maxScl(variant, iso).hz : null, current: Math.abs(rp - v.rp) <= 1e-6 * v.rp }
   })
   return { side, series, rows }
 }
@@ -256,6 +267,6 @@ function i2cAssumptions(s: I2c): string[] {
     `I2C: the controller drives SCL low for ${((s.dutyLow ?? I2C_MODES[s.mode].tLow / (I2C_MODES[s.mode].tLow + I2C_MODES[s.mode].tHigh)) * 100).toFixed(1)} % of the period and counts its high time from its release (no clock stretching by the target).`,
     'I2C: a target releasing SDA (a rising edge, the slow one) is the worst case of the round trip; the isolator passes SCL\'s rise once side a reaches its threshold.',
     `I2C: the controller holds its data ${s.controller.tHdDat > 0 ? `${(s.controller.tHdDat * 1e9).toFixed(0)} ns` : '0 s (UM10204\'s minimum; enter the controller\'s own hold if it is longer)'} after its SCL falling edge.`,
-    'I2C: fall times are the drivers\' and are not checked here (UM10204 bounds them by the driver, not the pull-up).',
+    "I2C: a fall is the driver sinking the mode's IOL (3 mA, 20 mA in Fast-mode Plus) against the pull-up's current at mid-swing, a constant-current driver (the slow case); a driver that sinks more falls faster.",
   ]
 }

@@ -51,6 +51,11 @@ describe('I2C link', () => {
     expect(i2c.checks.find((c) => c.id === 'low-controller')!.limit).toBeCloseTo(1.3e-6, 15)
     expect(i2c.checks.find((c) => c.id === 'high-target')!.limit).toBeCloseTo(0.6e-6, 15)
     expect(i2c.checks.find((c) => c.id === 'mode-frequency')!.limit).toBeCloseTo(1 / 400e3, 15)
+    // NXP UM10204 Table 10, Fast mode: tf 300 ns max; the driver sinks at least IOL = 3 mA
+    const fall = i2c.checks.find((c) => c.id === 'fall-target')!
+    expect(fall.limit).toBeCloseTo(300e-9, 15)
+    // common practice: constant-current sink, Cb x 0.4 VDD / (IOL - 0.5 VDD / Rp)
+    expect(fall.value).toBeCloseTo((t.cb * 0.4 * t.vdd) / (3e-3 - (0.5 * t.vdd) / t.rp), 15)
     // NXP UM10204 section 7.1 worked example: Rp(min) = (3.3 V - 0.4 V) / 3 mA = 967 ohm
     expect(i2c.levelChecks.find((c) => c.id === 'rp-min-controller')!.limit).toBeCloseTo(966.7, 1)
   })
@@ -60,7 +65,7 @@ describe('I2C link', () => {
     at.i2c!.sclHz = i2c.maxSclHz!
     const r = analyzeLink(at).i2c!
     const c = r.checks.find((x) => x.id === i2c.maxSclLimitedBy)!
-    const need = ['mode-frequency', 'rise-controller', 'rise-target'].includes(c.id) ? 0 : (MONITOR_I2C_LINK.i2c!.requiredSlack ?? 0)
+    const need = ['mode-frequency', 'rise-controller', 'rise-target', 'fall-controller', 'fall-target'].includes(c.id) ? 0 : (MONITOR_I2C_LINK.i2c!.requiredSlack ?? 0)
     expect(c.slack).toBeCloseTo(need, 12)
     expect(r.pass).toBe(true)
     at.i2c!.sclHz = i2c.maxSclHz! * 1.01
@@ -114,7 +119,9 @@ describe('I2C link', () => {
         const r1 = analyzeLink(l1).i2c!
         const r2 = analyzeLink(l2).i2c!
         const rise = (r: typeof r1) => r.checks.find((c) => c.id === 'rise-target')!.value
+        const fall = (r: typeof r1) => r.checks.find((c) => c.id === 'fall-target')!.value
         expect(rise(r2)).toBeGreaterThanOrEqual(rise(r1))
+        expect(fall(r2)).toBeGreaterThanOrEqual(fall(r1))
         expect(r2.maxSclHz ?? 0).toBeLessThanOrEqual((r1.maxSclHz ?? 0) * (1 + 1e-12))
       }),
       { numRuns: 60 },
