@@ -9,7 +9,8 @@
  * latency uniformly within one tick, and every edge's jitter (Gaussian with the chain's
  * rms, plus uniform within +- its peak). The trial's result is the frame's worst margin
  * in UI over every bit and every data value (and both directions of a two-channel UART
- * link). The generator is seeded, so a study reproduces exactly.
+ * link). The generator is seeded, so a study reproduces exactly. An RS-485 link is studied as
+ * its UART data direction; its turnaround stays a worst-case check of the analysis.
  *
  * The kernel reduces each chain to a small plan of numbers once, then evaluates only
  * sums in the trial loop.
@@ -309,8 +310,8 @@ function summariseTrials(results: Float64Array, req: number) {
 export function spreadStudy(input: LinkInput | Link, options: SpreadStudyOptions = {}): SpreadStudyResult {
   const link = parseLink(input)
   const { trials, seed, bins, normal } = spreadOptions(options)
-  if (link.protocol !== 'uart' || !link.uart)
-    throw new EngineInputError(['protocol'], 'the spread study covers UART links (clocks, detection latency and per-bit margins); SPI links are judged by their worst-case slacks')
+  if ((link.protocol !== 'uart' && link.protocol !== 'rs485') || !link.uart)
+    throw new EngineInputError(['protocol'], 'the spread study covers UART and RS-485 links (clocks, detection latency and per-bit margins); SPI, I2C and CAN links are judged by their worst-case slacks')
 
   const analysis = analyzeParsedLink(link)
   const uartIdx = link.channels.map((c, i) => (c.role === 'uart' ? i : -1)).filter((i) => i >= 0)

@@ -4,7 +4,8 @@
  * range), the collector current, the LED current needed for saturation with the derated
  * CTR and the chosen overdrive, the standard LED resistor that still delivers it, the
  * ratings, the switching times the calibrated coupler model predicts at that RL, IF and
- * RBE, and the link's margin at the target baud and its maximum baud. Recommends the row
+ * RBE, and the link's margin at the target baud and its maximum baud (on an RS-485 half-duplex
+ * link also the driver-enable turnaround, whose data path runs through the coupler). Recommends the row
  * that meets the target with the least LED current (longest LED life), flags the faster
  * alternatives, and when no row meets the target evaluates the circuit changes a hardware
  * engineer tries next.
@@ -16,11 +17,12 @@ import { GENERIC_LOGIC_OUTPUT_COUPLER, schmittBufferFor } from '../../shared/par
 import { analyzeParsedLink, notFunctionalReason, type Verdict } from './analyze'
 import { analyzeChain, type ChainAnalysis } from './chain'
 import { EngineInputError } from './errors'
+import { analyzeRs485Link } from './rs485'
 import { nearestNotAbove, seriesValues, type SeriesName } from './eseries'
 import { ctrDeratingOf, phototransistorInverts, phototransistorModel } from './phototransistor'
 import { fixedClockCases, frameLayout, marginAndMaxBaud, statedClockErrors, type ClockErrors, type Distortion, type FixedClockCases, type MarginAndMaxBaud } from './uart'
 import type { UartChannelResult } from './uart'
-import type { PullupSweepOptions, PullupSweepRow, SweepAdvice, PullupSweepResult } from '../../shared/types/analysis'
+import type { BusCheck, PullupSweepOptions, PullupSweepRow, SweepAdvice, PullupSweepResult } from '../../shared/types/analysis'
 export type { PullupSweepOptions, PullupSweepRow, SweepAdvice, PullupSweepResult }
 
 
@@ -45,6 +47,8 @@ interface SweepContext {
   others: UartChannelResult[]
   receiverInvert: boolean
   scratch: MarginAndMaxBaud
+  /** RS-485 half duplex: every channel's chain at the base values (the turnaround is re-checked with the row's data channel). */
+  chains: ChainAnalysis[] | null
 }
 
 /**
@@ -103,8 +107,8 @@ function checkTarget(link: Link, channelId: string, stageIndex: number): { ci: n
   const base = link.channels[ci]!.stages[stageIndex]
   if (!base || base.kind !== 'phototransistor')
     throw new EngineInputError(['channels', ci, 'stages', stageIndex], `stage ${stageIndex} of channel '${channelId}' is not a phototransistor stage`)
-  if (link.protocol !== 'uart' || !link.uart)
-    throw new EngineInputError(['protocol'], 'the pull-up sweep computes UART margins: the link must be a UART link')
+  if ((link.protocol !== 'uart' && link.protocol !== 'rs485') || !link.uart)
+    throw new EngineInputError(['protocol'], 'the pull-up sweep computes UART margins: the link must be a UART or RS-485 link')
   return { ci, base }
 }
 
@@ -158,11 +162,15 @@ function sweepContext(link: Link, ci: number, stageIndex: number, base: Phototra
     others: byChannel.filter((_, k) => k !== direction),
     receiverInvert: link.channels[ci]!.receiver.invert ?? false,
     scratch: { worstUi: 0, maxBaud: null },
+    chains: link.protocol === 'rs485' && link.rs485 && (link.rs485.duplex ?? 'half') === 'half' ? link.channels.map((ch, i) => analyzeChain(ch, { path: ['channels', i] })) : null,
   }
 }
 
-/** The link's margin, maximum baud and verdict with the swept channel's stages replaced. */
-function evaluateStages(ctx: SweepContext, stages: StageSpec[]): { marginUi: number | null; maxBaud: number | null; verdict: Verdict; chain: ChainAnalysis } {
+/**
+ * The link's margin, maximum baud and verdict with the swept channel's stages replaced; on an
+ * RS-485 half-duplex link also the turnaround, whose data path runs through the swept stage.
+ */
+function evaluateStages(ctx: SweepContext, stages: StageSpec[]): { marginUi: number | null; maxBaud: number | null; verdict: Verdict; chain: ChainAnalysis; turnaround: BusCheck | null } {
   const channel = ctx.link.channels[ctx.ci]!
   const chain = analyzeChain({ ...channel, stages }, { path: ['channels', ctx.ci] })
   const broken = notFunctionalReason(chain, channel) !== null
@@ -177,8 +185,18 @@ function evaluateStages(ctx: SweepContext, stages: StageSpec[]): { marginUi: num
     max = max === null || o.maxBaud === null ? null : Math.min(max, o.maxBaud)
     verdicts.push(o.verdict)
   }
+  let turnaround: BusCheck | null = null
+  if (ctx.chains) {
+    const channels = ctx.link.channels.slice()
+    channels[ctx.ci] = { ...channel, stages }
+    const chains = ctx.chains.slice()
+    chains[ctx.ci] = chain
+    const t = analyzeRs485Link({ ...ctx.link, uart: { ...ctx.link.uart!, baud: ctx.targetBaud }, channels }, chains).result
+    turnaround = t.checks.find((c) => !c.pass) ?? null
+    if (turnaround) verdicts.push('fail')
+  }
   const verdict: Verdict = verdicts.includes('fail') ? 'fail' : verdicts.includes('marginal') ? 'marginal' : 'pass'
-  return { marginUi: margin, maxBaud: max, verdict, chain }
+  return { marginUi: margin, maxBaud: max, verdict, chain, turnaround }
 }
 
 /** One row: the LED resistor for saturation at this RL and RBE, the stage with it, and the link's margin. */
@@ -212,12 +230,13 @@ function sweepRow(ctx: SweepContext, rl: number, rbe: number | null, series: 'E1
   let marginUi: number | null = null
   let maxBaud: number | null = null
   let verdict: PullupSweepRow['verdict'] = null
+  let turnaround: BusCheck | null = null
   let reduced: Pick<ReturnType<typeof phototransistorModel>, 'model' | 'operating' | 'warnings'>
   if (ledCurrent !== null) {
     const stages = ctx.link.channels[ctx.ci]!.stages.slice()
     stages[ctx.stageIndex] = stage
     const e = evaluateStages(ctx, stages)
-    ;({ marginUi, maxBaud, verdict } = e)
+    ;({ marginUi, maxBaud, verdict, turnaround } = e)
     // the chain already reduced the stage: take its model and warnings
     const c = e.chain.stages[ctx.stageIndex]!
     reduced = { model: c.model, operating: c.operating!, warnings: e.chain.warnings.filter((w) => w.stage === ctx.stageIndex) }
@@ -229,13 +248,9 @@ function sweepRow(ctx: SweepContext, rl: number, rbe: number | null, series: 'E1
     else notes.push(w.message)
   }
   const withinRatings = reasons.length === 0
-  const meetsTarget = marginUi !== null && marginUi >= ctx.requiredMarginUi
-  if (ledCurrent !== null && !meetsTarget)
-    reasons.push(
-      marginUi === null
-        ? `No margin at ${formatEng(ctx.targetBaud, 'Bd')}: the link cannot carry data.`
-        : `Margin ${marginUi.toFixed(3)} UI at ${formatEng(ctx.targetBaud, 'Bd')} is below the required ${ctx.requiredMarginUi} UI.`,
-    )
+  const missed = ledCurrent !== null ? targetMisses(ctx, marginUi, turnaround) : []
+  const meetsTarget = marginUi !== null && missed.length === 0
+  reasons.push(...missed)
   const m = reduced.model
   return {
     rl,
@@ -260,6 +275,16 @@ function sweepRow(ctx: SweepContext, rl: number, rbe: number | null, series: 'E1
     verdict,
     fasterAlternative: false,
   }
+}
+
+/** Why a row misses the target: its margin at the target baud, and on RS-485 the turnaround. */
+function targetMisses(ctx: SweepContext, marginUi: number | null, turnaround: BusCheck | null): string[] {
+  const misses: string[] = []
+  if (marginUi === null) misses.push(`No margin at ${formatEng(ctx.targetBaud, 'Bd')}: the link cannot carry data.`)
+  else if (marginUi < ctx.requiredMarginUi)
+    misses.push(`Margin ${marginUi.toFixed(3)} UI at ${formatEng(ctx.targetBaud, 'Bd')} is below the required ${ctx.requiredMarginUi} UI.`)
+  if (turnaround) misses.push(`RS-485 turnaround fails: ${turnaround.label} is short by ${formatEng(-turnaround.slack, 's')}.`)
+  return misses
 }
 
 /** Notes every row shares (same words once the numbers are set aside) are stated once for the sweep. */
@@ -329,7 +354,7 @@ function adviseCircuitChanges(ctx: SweepContext, rows: PullupSweepRow[], o: Retu
   }
   const judge = (change: SweepAdvice['change'], description: string, stages: StageSpec[]): SweepAdvice => {
     const e = evaluateStages(ctx, stages)
-    return { change, description, marginUi: e.marginUi, maxBaud: e.maxBaud, maxBaudCapped: atCap(e.maxBaud), meetsTarget: e.marginUi !== null && e.marginUi >= ctx.requiredMarginUi }
+    return { change, description, marginUi: e.marginUi, maxBaud: e.maxBaud, maxBaudCapped: atCap(e.maxBaud), meetsTarget: e.marginUi !== null && e.marginUi >= ctx.requiredMarginUi && e.turnaround === null }
   }
   if (ctx.base.rbe === undefined) {
     // a part with a base pin: the E12 RBE that gives the best margin at the best row's pull-up

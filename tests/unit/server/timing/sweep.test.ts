@@ -230,3 +230,62 @@ describe('pull-up sweep against the link analysis', () => {
     expect(() => sweepPullup(link, 'tel', 0, { series: 'E12', rlMin: 1000, rlMax: 2000, overdrive: 0 })).toThrow(/overdrive/)
   })
 })
+
+describe('pull-up sweep on an RS-485 link', () => {
+  const fixed = (d: number) => ({ min: d, typ: d, max: d })
+  /** Half duplex: the data through the coupler and a transceiver, DE through a fast isolator to the same transceiver (invented values). */
+  const rs485Link = (lagTime: number): Link =>
+    LinkSpec.parse({
+      schemaVersion: 2,
+      name: 'isolated field bus',
+      protocol: 'rs485',
+      channels: [
+        {
+          id: 'data',
+          role: 'uart',
+          stages: [coupler(), { kind: 'transceiver', name: 'transceiver', driverDelay: fixed(40e-9), receiverDelay: fixed(60e-9) }],
+          receiver: { vdd: 5, vih: 3.5, vil: 1.5, invert: true },
+        },
+        {
+          id: 'de',
+          role: 'de',
+          stages: [
+            { kind: 'digital', name: 'isolator', tplh: fixed(100e-9), tphl: fixed(100e-9) },
+            { kind: 'transceiver', name: 'transceiver', driverDelay: fixed(40e-9), receiverDelay: fixed(60e-9), enableTime: 200e-9, disableTime: 100e-9 },
+          ],
+          receiver: { vdd: 5, vih: 3.5, vil: 1.5 },
+        },
+      ],
+      uart: { baud: 9600, dataBits: 8, parity: 'none', stopBits: 1, requiredMarginUi: 0.1, tx: { errorPpm: 5000 }, rx: { errorPpm: 5000, oversampling: 16, sampleTicks: [7, 8, 9], vote: 'majority' } },
+      rs485: { duplex: 'half', leadTime: 1e-6, lagTime },
+    } satisfies LinkInput)
+
+  it('each row re-checks the turnaround through the swept coupler, as the full analysis of that row does', () => {
+    // a DE lag of 30 µs: the large pull-ups make the coupler's slowest edge on the data path longer than that
+    const link = rs485Link(30e-6)
+    const r = sweepPullup(link, 'data', 0, { series: 'E12', rlMin: 470, rlMax: 22000, overdrive: 1, targetBaud: 9600 })
+    const turnaroundFails = r.rows.map((x) => x.reasons.some((s) => /RS-485 turnaround fails/.test(s)))
+    // both kinds of row occur, so the check below compares something
+    expect(turnaroundFails).toContain(true)
+    expect(turnaroundFails).toContain(false)
+    r.rows.forEach((row, i) => {
+      if (row.rLed === null) return
+      const applied = structuredClone(link)
+      applied.channels[0]!.stages[0] = { ...(applied.channels[0]!.stages[0] as object), rl: row.rl, rLed: row.rLed, ledCurrent: undefined } as Link['channels'][number]['stages'][number]
+      const full = analyzeLink(applied)
+      expect(full.rs485!.pass).toBe(!turnaroundFails[i])
+      if (turnaroundFails[i]) {
+        expect(row.feasible).toBe(false)
+        expect(row.verdict).toBe('fail')
+      }
+    })
+    // a row that meets the margin and the turnaround is recommended
+    expect(r.recommended).not.toBeNull()
+    expect(turnaroundFails[r.recommended!]).toBe(false)
+  })
+
+  it('a link other than UART or RS-485 is refused, naming the protocol', () => {
+    const i2c = { ...rs485Link(10e-6), protocol: 'spi' } as unknown as Link
+    expect(() => sweepPullup(i2c, 'data', 0, { series: 'E12', rlMin: 1000, rlMax: 2000 })).toThrow(/UART or RS-485/)
+  })
+})
