@@ -68,30 +68,42 @@ export function rcEdgeNetlist(k: RcEdgeCase): string {
   return lines.join('\n')
 }
 
-/** Run each case in its own `ngspice -b` process and parse the measurements. */
-export function runRcEdges(cases: RcEdgeCase[]): RcEdgeMeasured[] {
+/**
+ * Run each netlist in its own `ngspice -b` process; every `.meas` result by its (lower-case)
+ * name. A measurement ngspice could not make is absent from the map; the output is kept for
+ * the caller's message.
+ */
+export function runMeasures(netlists: string[]): { values: Map<string, number>; output: string }[] {
   const dir = mkdtempSync(join(tmpdir(), 'bitslack-ngspice-'))
   try {
-    return cases.map((k, i) => {
+    return netlists.map((netlist, i) => {
       const file = join(dir, `case${i}.cir`)
-      writeFileSync(file, rcEdgeNetlist(k))
+      writeFileSync(file, netlist)
       const r = spawnSync('ngspice', ['-b', file], { encoding: 'utf8', cwd: dir })
       if (r.error) throw new Error(`ngspice could not run: ${r.error.message}`)
-      const found = new Map<string, number>()
-      for (const m of r.stdout.matchAll(/^\s*([rf]_[a-z0-9]+)\s*=\s*([-+0-9.eE]+)/gm)) found.set(m[1]!, Number(m[2]))
-      const pick = (prefix: 'r' | 'f', levels: Record<string, number>) => {
-        const out: Record<string, number> = {}
-        for (const n of Object.keys(levels)) {
-          const v = found.get(`${prefix}_${name(n)}`)
-          if (v === undefined || !Number.isFinite(v))
-            throw new Error(`ngspice gave no measurement ${prefix}_${name(n)} for R=${k.r} C=${k.c}:\n${r.stdout.slice(-800)}${r.stderr.slice(-400)}`)
-          out[n] = v
-        }
-        return out
-      }
-      return { rise: pick('r', k.riseLevels), fall: pick('f', k.fallLevels) }
+      const values = new Map<string, number>()
+      for (const m of r.stdout.matchAll(/^\s*([a-z][a-z0-9_]*)\s*=\s*([-+0-9.eE]+)/gm)) if (Number.isFinite(Number(m[2]))) values.set(m[1]!, Number(m[2]))
+      return { values, output: `${r.stdout.slice(-800)}${r.stderr.slice(-400)}` }
     })
   } finally {
     rmSync(dir, { recursive: true, force: true })
   }
+}
+
+/** Run each case in its own `ngspice -b` process and parse the measurements. */
+export function runRcEdges(cases: RcEdgeCase[]): RcEdgeMeasured[] {
+  const runs = runMeasures(cases.map(rcEdgeNetlist))
+  return cases.map((k, i) => {
+    const { values, output } = runs[i]!
+    const pick = (prefix: 'r' | 'f', levels: Record<string, number>) => {
+      const out: Record<string, number> = {}
+      for (const n of Object.keys(levels)) {
+        const v = values.get(`${prefix}_${name(n)}`)
+        if (v === undefined) throw new Error(`ngspice gave no measurement ${prefix}_${name(n)} for R=${k.r} C=${k.c}:\n${output}`)
+        out[n] = v
+      }
+      return out
+    }
+    return { rise: pick('r', k.riseLevels), fall: pick('f', k.fallLevels) }
+  })
 }

@@ -33,11 +33,15 @@ const SPEC_ONLY = new Set(['rise-controller', 'rise-target', 'fall-controller', 
 /**
  * The 70 %-30 % fall of a line a driver pulls down: the bus capacitance discharged by the driver's
  * sink current (at least the mode's IOL once above VOL, UM10204 Table 10) less what the pull-up
- * feeds in at mid-swing, 0.5 VDD / Rp. Common practice: a constant-current driver, the slow case.
+ * feeds in, (VDD - v) / Rp. Integrating Cb dv / (IOL - (VDD - v) / Rp) from 0.7 VDD to 0.3 VDD:
+ * tf = Rp Cb ln((IOL - 0.3 VDD / Rp) / (IOL - 0.7 VDD / Rp)); infinite when the driver cannot
+ * pull the line below 0.3 VDD. Common practice: a constant-current driver, the slow case (a real
+ * output sinks more above VOL); checked against ngspice in tests/unit/server/timing/i2c-spice.test.ts.
  */
 export function fallTime(side: { vdd: number; rp: number; cb: number }, iol: number): number {
-  const net = iol - (0.5 * side.vdd) / side.rp
-  return net > 0 ? (side.cb * 0.4 * side.vdd) / net : Number.POSITIVE_INFINITY
+  const atStart = iol - (0.3 * side.vdd) / side.rp
+  const atEnd = iol - (0.7 * side.vdd) / side.rp
+  return atEnd > 0 ? side.rp * side.cb * Math.log(atStart / atEnd) : Number.POSITIVE_INFINITY
 }
 
 type I2c = NonNullable<Link['i2c']>

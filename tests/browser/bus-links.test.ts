@@ -153,6 +153,9 @@ describe('new link types in the browser', () => {
     await expect.poll(() => page.getByTestId('verdict').first().textContent(), { timeout: 20_000 }).toMatch(/pass|marginal/i)
     await screenshot(page, 'rs485-link')
     await page.locator('#link-turnaround').screenshot({ path: 'tests/.artifacts/screenshots/rs485-timeline.png' })
+    // the data direction's spread study runs on an RS-485 link as on a UART link
+    await page.getByRole('button', { name: 'Run spread study' }).click()
+    await page.getByText(/trials below 0 UI/).waitFor({ timeout: 20_000 })
     await saveAndFreeze(page)
     await page.getByRole('heading', { name: 'RS-485 turnaround checks' }).waitFor()
     await screenshot(page, 'rs485-report')
