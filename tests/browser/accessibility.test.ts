@@ -11,7 +11,7 @@ import type { Page } from 'playwright-core'
 import { buildWorld, type World } from '../factories/world'
 import { FACTORY_PASSWORD } from '../factories/users'
 import { buildLink, buildLinkSpec, buildProject } from '../factories/workspace'
-import { openBrowser, type BrowserSession } from '../support/browser'
+import { openBrowser, signInWithForm, type BrowserSession } from '../support/browser'
 
 const baseURL = inject('baseURL')
 const AXE = readFileSync(path.resolve('node_modules/axe-core/axe.min.js'), 'utf8')
@@ -25,14 +25,7 @@ let uartId: number
 let spiId: number
 let reportId: number
 
-async function signIn(page: Page, email: string) {
-  await page.context().clearCookies()
-  await page.goto(`${baseURL}/sign-in`)
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password').fill(FACTORY_PASSWORD)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(/\/teams\/\d+/)
-}
+const signIn = (page: Page, email: string) => signInWithForm(page, baseURL, email, FACTORY_PASSWORD)
 
 /** axe's violations on the page as it stands: "rule (n): first targets". */
 async function violations(page: Page): Promise<string[]> {

@@ -15,7 +15,7 @@ import { buildWorld, type World } from '../factories/world'
 import { FACTORY_PASSWORD } from '../factories/users'
 import { buildLink, buildLinkSpec, buildProject } from '../factories/workspace'
 import { waitForMail } from '../support/mail'
-import { openBrowser, screenshot, type BrowserSession } from '../support/browser'
+import { openBrowser, screenshot, signInWithForm, type BrowserSession } from '../support/browser'
 
 const baseURL = inject('baseURL')
 let world: World
@@ -24,14 +24,7 @@ let projectId: number
 let browser: BrowserSession
 const dir = mkdtempSync(path.join(tmpdir(), 'bitslack-print-'))
 
-async function signIn(page: Page, email: string) {
-  await page.context().clearCookies()
-  await page.goto(`${baseURL}/sign-in`)
-  await page.getByLabel('E-mail').fill(email)
-  await page.getByLabel('Password').fill(FACTORY_PASSWORD)
-  await page.getByRole('button', { name: 'Sign in' }).click()
-  await page.waitForURL(/\/teams\/\d+/)
-}
+const signIn = (page: Page, email: string) => signInWithForm(page, baseURL, email, FACTORY_PASSWORD)
 
 beforeAll(async () => {
   world = await buildWorld()

@@ -50,3 +50,13 @@ export async function screenshot(page: Page, name: string) {
   await page.screenshot({ path: file, fullPage: true })
   return file
 }
+
+/** Sign in through the form as a user does, in a fresh session (earlier cookies cleared); returns on the team page. */
+export async function signInWithForm(page: Page, baseURL: string, email: string, password: string) {
+  await page.context().clearCookies()
+  await page.goto(`${baseURL}/sign-in`)
+  await page.getByLabel('E-mail').fill(email)
+  await page.getByLabel('Password').fill(password)
+  await page.getByRole('button', { name: 'Sign in' }).click()
+  await page.waitForURL(/\/teams\/\d+/)
+}
