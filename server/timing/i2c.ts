@@ -38,6 +38,20 @@ export function i2cRpMin(vdd: number, vol: number, iol: number): number {
   return (vdd - vol) / iol
 }
 
+/**
+ * The 70 %-30 % fall of a line a driver pulls down: the bus capacitance discharged by the driver's
+ * sink current (at least the mode's IOL once above VOL, UM10204 Table 10) less what the pull-up
+ * feeds in, (VDD - v) / Rp. Integrating Cb dv / (IOL - (VDD - v) / Rp) from 0.7 VDD to 0.3 VDD:
+ * tf = Rp Cb ln((IOL - 0.3 VDD / Rp) / (IOL - 0.7 VDD / Rp)); infinite when the driver cannot
+ * pull the line below 0.3 VDD. Common practice: a constant-current driver, the slow case (a real
+ * output sinks more above VOL); checked against ngspice in tests/unit/server/timing/i2c-spice.test.ts.
+ */
+export function i2cFallTime(side: { vdd: number; rp: number; cb: number }, iol: number): number {
+  const atStart = iol - (0.3 * side.vdd) / side.rp
+  const atEnd = iol - (0.7 * side.vdd) / side.rp
+  return atEnd > 0 ? side.rp * side.cb * Math.log(atStart / atEnd) : Number.POSITIVE_INFINITY
+}
+
 /** VOL(max) of the mode's drivers: 0.4 V at the mode's sink current for VDD above 2 V, 0.2 VDD at 2 V or less (UM10204 Table 10). */
 export function i2cVolMax(vdd: number): number {
   return vdd > 2 ? 0.4 : 0.2 * vdd

@@ -14,7 +14,7 @@ import type { BusCheck, BusTimeline, I2cLinkResult } from '../../shared/types/an
 import type { ChainAnalysis } from './chain'
 import { EngineInputError } from './errors'
 import { seriesValues, type SeriesName } from './eseries'
-import { I2C_MODES, I2C_TVDDAT, i2cSide, i2cVolMax } from './i2c'
+import { I2C_MODES, I2C_TVDDAT, i2cFallTime, i2cRiseTime, i2cRpMax, i2cSide, i2cVolMax } from './i2c'
 import type { Corners } from './types'
 
 /** Time for an RC line released from low to reach `fraction` of VDD. */
@@ -29,20 +29,6 @@ interface IsolatorDelays {
 
 /** Checks that do not scale with the SCL period and are spec limits rather than the team's slack. */
 const SPEC_ONLY = new Set(['rise-controller', 'rise-target', 'fall-controller', 'fall-target', 'mode-frequency'])
-
-/**
- * The 70 %-30 % fall of a line a driver pulls down: the bus capacitance discharged by the driver's
- * sink current (at least the mode's IOL once above VOL, UM10204 Table 10) less what the pull-up
- * feeds in, (VDD - v) / Rp. Integrating Cb dv / (IOL - (VDD - v) / Rp) from 0.7 VDD to 0.3 VDD:
- * tf = Rp Cb ln((IOL - 0.3 VDD / Rp) / (IOL - 0.7 VDD / Rp)); infinite when the driver cannot
- * pull the line below 0.3 VDD. Common practice: a constant-current driver, the slow case (a real
- * output sinks more above VOL); checked against ngspice in tests/unit/server/timing/i2c-spice.test.ts.
- */
-export function fallTime(side: { vdd: number; rp: number; cb: number }, iol: number): number {
-  const atStart = iol - (0.3 * side.vdd) / side.rp
-  const atEnd = iol - (0.7 * side.vdd) / side.rp
-  return atEnd > 0 ? side.rp * side.cb * Math.log(atStart / atEnd) : Number.POSITIVE_INFINITY
-}
 
 type I2c = NonNullable<Link['i2c']>
 
@@ -69,8 +55,8 @@ function timingChecks(s: I2c, iso: IsolatorDelays, T: number): BusCheck[] {
   return [
     max('rise-controller', 'tr, controller side (30 %-70 %, 0.8473 Rp Cb)', ra(0.7) - ra(0.3), m.riseMax),
     max('rise-target', 'tr, target side (30 %-70 %, 0.8473 Rp Cb)', rb(0.7) - rb(0.3), m.riseMax),
-    max('fall-controller', "tf, controller side (70 %-30 %, a driver sinking the mode's IOL against the pull-up)", fallTime(a, m.iol), m.fallMax),
-    max('fall-target', "tf, target side (70 %-30 %, a driver sinking the mode's IOL against the pull-up)", fallTime(b, m.iol), m.fallMax),
+    max('fall-controller', "tf, controller side (70 %-30 %, a driver sinking the mode's IOL against the pull-up)", i2cFallTime(a, m.iol), m.fallMax),
+    max('fall-target', "tf, target side (70 %-30 %, a driver sinking the mode's IOL against the pull-up)", i2cFallTime(b, m.iol), m.fallMax),
     min('mode-frequency', "SCL period against the mode's fSCL(max)", T, 1 / m.fSclMax),
     min('low-controller', 'tLOW at the controller', lowA + ra(0.3), m.tLow),
     min('high-controller', 'tHIGH at the controller', T - lowA - ra(0.7), m.tHigh),
@@ -199,14 +185,24 @@ function pullupSweep(s: I2c, iso: IsolatorDelays, side: 'controller' | 'target',
   const m = I2C_MODES[s.mode]
   const v = s[side]
   const rpMin = (v.vdd - (v.vol ?? i2cVolMax(v.vdd))) / m.iol
-  const rpMax = m.riseMax / (Math.log(7 / 3) * v.cb)
+  const rpMax = i2cRpMax(m.riseMax, v.cb)
   const lo = Math.max(1, Math.min(rpMin, rpMax) / 2)
   const hi = Math.max(rpMin, rpMax) * 2
   const rows = seriesValues(series, lo, hi).map((rp) => {
     const variant: I2c = { ...s, [side]: { ...v, rp } }
-    const rise = Math.log(7 / 3) * rp * v.cb
+    const rise = i2cRiseTime(rp, v.cb)
+    const fall = i2cFallTime({ ...v, rp }, m.iol)
     const rpOk = rp >= rpMin * (1 - 1e-9)
-    return { rp, rise, rpOk, riseOk: rise <= m.riseMax, maxSclHz: rpOk ? maxScl(variant, iso).hz : null, current: Math.abs(rp - v.rp) <= 1e-6 * v.rp }
+    return {
+      rp,
+      rise,
+      rpOk,
+      riseOk: rise <= m.riseMax,
+      fall: Number.isFinite(fall) ? fall : null,
+      fallOk: fall <= m.fallMax,
+      maxSclHz: rpOk ? maxScl(variant, iso).hz : null,
+      current: Math.abs(rp - v.rp) <= 1e-6 * v.rp,
+    }
   })
   return { side, series, rows }
 }

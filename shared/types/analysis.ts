@@ -857,7 +857,7 @@ export interface I2cLinkResult {
   worstSlack: number
   pass: boolean
   /** per side, pull-ups of an E series from half Rp(min) to twice Rp(max), each with its rise and the highest SCL */
-  pullupSweep: { side: 'controller' | 'target'; series: string; rows: { rp: number; rise: number; rpOk: boolean; riseOk: boolean; maxSclHz: number | null; current: boolean }[] }[]
+  pullupSweep: { side: 'controller' | 'target'; series: string; rows: { rp: number; rise: number; rpOk: boolean; riseOk: boolean; /** 70 %-30 % with the mode's IOL; null when the driver cannot pull the line below 0.3 VDD */ fall: number | null; fallOk: boolean; maxSclHz: number | null; current: boolean }[] }[]
   timeline: BusTimeline
 }
 

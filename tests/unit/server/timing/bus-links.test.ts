@@ -5,7 +5,7 @@
  */
 import fc from 'fast-check'
 import { describe, expect, it } from 'vitest'
-import { analyzeLink, EngineInputError, i2cRiseTime, parseLink } from '../../../../server/timing'
+import { analyzeLink, EngineInputError, i2cFallTime, i2cRiseTime, parseLink } from '../../../../server/timing'
 import { FIELD_RS485_LINK, MONITOR_I2C_LINK, PUMP_CAN_LINK } from '../../../../server/db/seeders/demo-links'
 import type { LinkInput } from '../../../../shared/schemas/link'
 
@@ -107,6 +107,21 @@ describe('I2C link', () => {
       expect(side.rows.some((r) => r.current)).toBe(true)
       for (const r of side.rows) if (!r.rpOk) expect(r.maxSclHz).toBeNull()
     }
+  })
+
+  it('each sweep row carries its fall against the mode\'s tf, and a small pull-up on a heavy bus fails it', () => {
+    // NXP UM10204 Table 10, Fast mode: tf 300 ns max at IOL 3 mA; VOL 0.4 V gives Rp(min) 1.53 kOhm at 5 V
+    const heavy = clone(MONITOR_I2C_LINK)
+    heavy.i2c!.target = { ...heavy.i2c!.target, vdd: 5, cb: 400e-12, rp: 2200 }
+    const rows = analyzeLink(heavy).i2c!.pullupSweep.find((x) => x.side === 'target')!.rows
+    for (const r of rows) {
+      expect(r.fall).toBe(Number.isFinite(i2cFallTime({ vdd: 5, rp: r.rp, cb: 400e-12 }, 3e-3)) ? i2cFallTime({ vdd: 5, rp: r.rp, cb: 400e-12 }, 3e-3) : null)
+      expect(r.fallOk).toBe(r.fall !== null && r.fall <= 300e-9)
+    }
+    // 1.6 kOhm is above Rp(min) yet its fall exceeds 300 ns on 400 pF: the row says so
+    const r16 = rows.find((r) => r.rp === 1600)!
+    expect(r16.rpOk).toBe(true)
+    expect(r16.fallOk).toBe(false)
   })
 
   it('property: more bus capacitance never shortens the rise nor raises the highest SCL', () => {

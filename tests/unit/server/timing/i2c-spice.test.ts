@@ -8,8 +8,7 @@
  */
 import { beforeAll, describe, expect, it } from 'vitest'
 import { requireNgspice, runMeasures } from '../../../../bench/ngspice-rc'
-import { i2cRiseTime, i2cRpMin } from '../../../../server/timing/i2c'
-import { fallTime } from '../../../../server/timing/i2cLink'
+import { i2cFallTime, i2cRiseTime, i2cRpMin } from '../../../../server/timing/i2c'
 
 const IOL = 3e-3 // UM10204 Table 10: VOL 0.4 V at 3 mA sink current (Standard and Fast mode)
 const VOL = 0.4 // UM10204 Table 10
@@ -79,7 +78,7 @@ describe('I2C bus edges against ngspice', () => {
 
   it.each(grid.map((g, i) => [g.rp, g.cb, g.vdd, i] as const))('Rp %s ohm, Cb %s F, VDD %s V: fall 70 %%-30 %% with a 3 mA sink', (rp, cb, vdd, i) => {
     const spice = measured(i, 'f30') - measured(i, 'f70')
-    const engine = fallTime({ vdd, rp, cb }, IOL)
+    const engine = i2cFallTime({ vdd, rp, cb }, IOL)
     expect(Number.isFinite(engine)).toBe(true)
     // the same constant-current driver: the closed form and the transient agree
     expect(Math.abs(engine - spice)).toBeLessThanOrEqual(TOL * rp * cb)
@@ -90,6 +89,6 @@ describe('I2C bus edges against ngspice', () => {
 
   it('a driver that cannot hold the line below 0.3 VDD against the pull-up gives no finite fall', () => {
     // the pull-up alone feeds 0.7 VDD / Rp at 0.3 VDD: a 3 mA sink cannot beat 3.5 V / 1 kOhm
-    expect(fallTime({ vdd: 5, rp: 1e3, cb: 100e-12 }, IOL)).toBe(Number.POSITIVE_INFINITY)
+    expect(i2cFallTime({ vdd: 5, rp: 1e3, cb: 100e-12 }, IOL)).toBe(Number.POSITIVE_INFINITY)
   })
 })
