@@ -263,8 +263,8 @@ export function i2cPullupColumns(): ReportColumn<I2cPullupRow>[] {
   return [
     { key: 'rp', label: 'Rp', csvLabel: 'Rp (ohm)', numeric: true, value: (r) => r.rp, text: (r) => `${formatEng(r.rp, 'Ω')}${r.current ? ' (now)' : ''}`, width: 60 },
     { key: 'rise', label: 'Rise 30-70 %', csvLabel: 'rise (s)', numeric: true, value: (r) => r.rise, text: (r) => s(r.rise), state: (r) => (r.riseOk ? 'healthy' : 'broken'), width: 60 },
-    { key: 'fall', label: 'Fall 70-30 %', csvLabel: 'fall (s)', numeric: true, value: (r) => r.fall, text: (r) => (r.fall === null ? 'never reaches 0.3 VDD' : s(r.fall)), state: (r) => (r.fallOk ? 'healthy' : 'broken'), width: 60 },
-    { key: 'rpOk', label: 'Above Rp(min)', csvLabel: 'above Rp(min)', value: (r) => r.rpOk, text: (r) => (r.rpOk ? 'yes' : 'no: drivers cannot sink it'), state: (r) => (r.rpOk ? 'healthy' : 'broken'), width: 70 },
+    { key: 'fall', label: 'Fall 70-30 %', csvLabel: 'fall (s)', numeric: true, value: (r) => r.fall, text: (r) => (r.fall === null ? 'none' : s(r.fall)), state: (r) => (r.fallOk ? 'healthy' : 'broken'), width: 60 },
+    { key: 'rpOk', label: 'Above Rp(min)', csvLabel: 'above Rp(min)', value: (r) => r.rpOk, text: (r) => (r.rpOk ? 'yes' : 'no'), state: (r) => (r.rpOk ? 'healthy' : 'broken'), width: 70 },
     { key: 'maxScl', label: 'Highest SCL', csvLabel: 'highest SCL (Hz)', numeric: true, value: (r) => r.maxSclHz, text: (r) => (r.maxSclHz === null ? '–' : formatEng(r.maxSclHz, 'Hz')), state: (r) => (ok(r) ? 'healthy' : 'broken'), width: 60 },
   ]
 }
