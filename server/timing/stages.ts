@@ -29,9 +29,12 @@ export interface StageReduction {
 const fixed = (t: number): Corners => ({ min: t, typ: t, max: t })
 const ideal = { typ: 0, max: 0 }
 
-/** Default output swing of a non-phototransistor stage: 0 V to the receiver's supply. */
-function swing(stage: StageSpec, receiverVdd: number): { vLow: number; vHigh: number } {
-  return { vLow: stage.vLow ?? 0, vHigh: stage.vHigh ?? receiverVdd }
+/**
+ * What every non-phototransistor stage states the same way: its output swing (default 0 V to the
+ * receiver's supply), the part-to-part skew and the jitter (default none).
+ */
+function outputOf(stage: StageSpec, receiverVdd: number): Pick<StageEdgeModel, 'vLow' | 'vHigh' | 'partSkew' | 'jitterRms' | 'jitterPeak'> {
+  return { vLow: stage.vLow ?? 0, vHigh: stage.vHigh ?? receiverVdd, partSkew: stage.partSkew ?? 0, jitterRms: stage.jitterRms ?? 0, jitterPeak: stage.jitterPeak ?? 0 }
 }
 
 /** A digital stage (coupler with logic output, digital isolator, buffer) as entered. */
@@ -46,10 +49,7 @@ export function digitalStageModel(stage: DigitalStage, receiverVdd: number): Sta
     tf: stage.tf ? { typ: stage.tf.typ, max: stage.tf.max } : { ...ideal },
     riseShape: shape,
     fallShape: shape,
-    ...swing(stage, receiverVdd),
-    partSkew: stage.partSkew ?? 0,
-    jitterRms: stage.jitterRms ?? 0,
-    jitterPeak: stage.jitterPeak ?? 0,
+    ...outputOf(stage, receiverVdd),
   }
 }
 
@@ -64,10 +64,7 @@ export function wireStageModel(stage: WireStage, receiverVdd: number): StageEdge
     tf: { ...ideal },
     riseShape: 'ramp',
     fallShape: 'ramp',
-    ...swing(stage, receiverVdd),
-    partSkew: stage.partSkew ?? 0,
-    jitterRms: stage.jitterRms ?? 0,
-    jitterPeak: stage.jitterPeak ?? 0,
+    ...outputOf(stage, receiverVdd),
     passThrough: { rise: true, fall: true },
   }
 }
@@ -89,10 +86,7 @@ export function rcStageModel(stage: RcStage, receiverVdd: number): StageEdgeMode
     tf: passiveRise ? { ...ideal } : passiveEdge,
     riseShape: passiveRise ? 'exponential' : 'ramp',
     fallShape: passiveRise ? 'ramp' : 'exponential',
-    ...swing(stage, receiverVdd),
-    partSkew: stage.partSkew ?? 0,
-    jitterRms: stage.jitterRms ?? 0,
-    jitterPeak: stage.jitterPeak ?? 0,
+    ...outputOf(stage, receiverVdd),
     passThrough: { rise: !passiveRise, fall: passiveRise },
   }
 }
@@ -121,10 +115,7 @@ export function transceiverStageModel(stage: TransceiverStage, role: ChannelRole
     tf: { ...ideal },
     riseShape: 'ramp',
     fallShape: 'ramp',
-    ...swing(stage, receiverVdd),
-    partSkew: stage.partSkew ?? 0,
-    jitterRms: stage.jitterRms ?? 0,
-    jitterPeak: stage.jitterPeak ?? 0,
+    ...outputOf(stage, receiverVdd),
   }
 }
 
