@@ -595,12 +595,16 @@ export type I2cSettings = z.infer<typeof I2cSettings>
 // ---------------------------------------------------------------- CAN (timing-model.md section 4)
 
 /** A bit-timing setting of the controller, in time quanta (ISO 11898-1). */
+/** A whole count of time quanta (or the prescaler) from 1 to `max`, its message naming the field. */
+const wholeCount = (name: string, max: number) =>
+  z.number().int(`${name} must be a whole number`).min(1, `${name} must be at least 1`).max(max, `${name} must be at most ${max}`)
+
 export const CanTimingSpec = z.object({
-  brp: z.number().int('brp must be a whole number').min(1, 'brp must be at least 1').max(1024, 'brp must be at most 1024'),
-  propSeg: z.number().int('propSeg must be a whole number').min(1, 'propSeg must be at least 1').max(64, 'propSeg must be at most 64'),
-  phaseSeg1: z.number().int('phaseSeg1 must be a whole number').min(1, 'phaseSeg1 must be at least 1').max(64, 'phaseSeg1 must be at most 64'),
-  phaseSeg2: z.number().int('phaseSeg2 must be a whole number').min(1, 'phaseSeg2 must be at least 1').max(64, 'phaseSeg2 must be at most 64'),
-  sjw: z.number().int('sjw must be a whole number').min(1, 'sjw must be at least 1').max(64, 'sjw must be at most 64'),
+  brp: wholeCount('brp', 1024),
+  propSeg: wholeCount('propSeg', 64),
+  phaseSeg1: wholeCount('phaseSeg1', 64),
+  phaseSeg2: wholeCount('phaseSeg2', 64),
+  sjw: wholeCount('sjw', 64),
 })
 export type CanTimingSpec = z.infer<typeof CanTimingSpec>
 
